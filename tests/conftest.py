@@ -1,0 +1,18 @@
+"""Shared fixtures and Hypothesis profiles (``--hypothesis-profile ci`` for more examples)."""
+
+from __future__ import annotations
+
+import os
+
+import pytest
+from click.testing import CliRunner
+from hypothesis import HealthCheck, settings
+
+settings.register_profile("ci", max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+settings.register_profile("dev", deadline=None)
+settings.load_profile(os.environ.get("HYPOTHESIS_PROFILE", "dev"))
+
+
+@pytest.fixture
+def runner() -> CliRunner:
+    return CliRunner()

@@ -1,0 +1,172 @@
+"""The exact search against outside counts (OEIS) and against a deliberately simple brute force."""
+
+from __future__ import annotations
+
+import itertools
+from collections import Counter
+from fractions import Fraction
+from functools import lru_cache
+
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from netsynth.errors import InfeasibleError
+from netsynth.network import exact_resistance, part_count, part_values, resistance
+from netsynth.search.exact import ExactSearch
+from netsynth.search.frontier import search_frontier
+from netsynth.search.tables import all_tables, distinct_value_count
+from netsynth.stock import StockBin, StockItem, bin_from_values
+
+# ------------------------------------------------------------------ OEIS counts
+
+# OEIS A048211: distinct resistances of exactly n equal resistors, series and parallel only.
+A048211 = [1, 2, 4, 9, 22, 53, 131, 337, 869, 2213, 5691, 14517]
+# OEIS A153588: distinct resistances of at most n equal resistors, series and parallel.
+A153588 = [1, 3, 7, 15, 35, 77, 179, 429, 1039, 2525, 6235, 15463]
+
+
+@pytest.fixture(scope="module")
+def unit_tables():
+    return all_tables([1.0], None, 12)
+
+
+@pytest.mark.parametrize("n, expected", list(enumerate(A048211, start=1)))
+def test_exactly_n_unit_parts_matches_oeis_a048211(unit_tables, n, expected):
+    # OEIS A048211
+    assert len(unit_tables[n - 1]) == expected
+
+
+@pytest.mark.parametrize("n, expected", list(enumerate(A153588, start=1)))
+def test_at_most_n_unit_parts_matches_oeis_a153588(unit_tables, n, expected):
+    # OEIS A153588
+    assert distinct_value_count(unit_tables[:n]) == expected
+
+
+def test_values_new_at_five_parts_match_oeis_a051389(unit_tables):
+    # OEIS A051389, explicit set of the 20 values that need exactly 5 unit resistors
+    expected = {Fraction(1, 5), Fraction(2, 7), Fraction(3, 8), Fraction(3, 7), Fraction(4, 7), Fraction(5, 8),
+                Fraction(5, 7), Fraction(4, 5), Fraction(5, 6), Fraction(6, 7), Fraction(7, 6), Fraction(6, 5),
+                Fraction(5, 4), Fraction(7, 5), Fraction(8, 5), Fraction(7, 4), Fraction(7, 3), Fraction(8, 3),
+                Fraction(7, 2), Fraction(5)}
+    fewer = {Fraction(v).limit_denominator(100) for t in unit_tables[:4] for v in t.values}
+    five = {Fraction(v).limit_denominator(100) for v in unit_tables[4].values}
+    assert five - fewer == expected
+
+
+def test_four_unit_parts_match_oeis_a048211_example(unit_tables):
+    # OEIS A048211 comment: the n = 4 set {1/4, 2/5, 3/5, 3/4, 1, 4/3, 5/3, 5/2, 4}
+    four = sorted(Fraction(v).limit_denominator(100) for v in unit_tables[3].values)
+    assert four == sorted(Fraction(x) for x in ["1/4", "2/5", "3/5", "3/4", "1", "4/3", "5/3", "5/2", "4"])
+
+
+# ------------------------------------------------------------------ brute force
+
+
+def brute_force_best(values: list[int], counts: list[int | None], n: int, target: Fraction):
+    """Smallest |value/target - 1| over every series/parallel network of exactly n parts.
+
+    Deliberately simple: every multiset of n parts within the counts, and every way of
+    splitting a multiset in two, recursively, in exact rational arithmetic.
+    """
+
+    @lru_cache(maxsize=None)
+    def realisable(multiset: tuple[int, ...]) -> frozenset[Fraction]:
+        if len(multiset) == 1:
+            return frozenset({Fraction(multiset[0])})
+        out = set()
+        items = list(multiset)
+        for mask in range(1, 2 ** len(items) - 1):
+            left = tuple(sorted(items[i] for i in range(len(items)) if mask >> i & 1))
+            right = tuple(sorted(items[i] for i in range(len(items)) if not mask >> i & 1))
+            for a in realisable(left):
+                for b in realisable(right):
+                    out.add(a + b)
+                    out.add(a * b / (a + b))
+        return frozenset(out)
+
+    best = None
+    limit = {v: (n if c is None else c) for v, c in zip(values, counts)}
+    for combo in itertools.combinations_with_replacement(sorted(values), n):
+        if any(combo.count(v) > limit[v] for v in set(combo)):
+            continue
+        for r in realisable(combo):
+            err = abs(r / target - 1)
+            if best is None or err < best:
+                best = err
+    return best
+
+
+SMALL_CASES = [
+    # (values, counts, target, max parts) — small invented bins, limited and unlimited
+    ([100, 220, 470, 1000], [1, 1, 1, 1], 337, 4),          # one of each
+    ([100, 220, 470, 1000], [2, 1, 3, 1], 1234, 5),         # mixed counts
+    ([10, 47, 150], [None, None, None], 88, 4),              # unlimited
+    ([10, 47, 150], [1, 2, None], 31, 5),                    # partly limited
+    ([1000], [3], 1500, 4),                                  # too few parts for 4
+    ([330, 680, 1500, 3300, 6800], [1, 1, 2, 1, 1], 2000, 4),
+    ([1, 2, 5], [2, 2, 2], 3.3, 5),
+]
+
+
+@pytest.mark.parametrize("values, counts, target, k", SMALL_CASES)
+def test_search_equals_brute_force_on_small_bins(values, counts, target, k):
+    # reference: the brute-force enumerator above (exact rationals, every tree)
+    search = ExactSearch([float(v) for v in values], counts, k)
+    target_q = Fraction(str(target))
+    for n in range(1, k + 1):
+        found = search.best(n, float(target))
+        expected = brute_force_best(values, counts, n, target_q)
+        if expected is None:
+            assert found == []
+            continue
+        got = found[0]
+        assert part_count(got.network) == n
+        assert abs(float(abs(exact_resistance(got.network) / target_q - 1)) - float(expected)) <= 1e-12
+        used = Counter(part_values(got.network))
+        for v, c in zip(values, counts):
+            assert c is None or used[float(v)] <= c, "the network takes more parts than the bin holds"
+
+
+@settings(max_examples=25, deadline=None)
+@given(
+    values=st.lists(st.integers(1, 50).map(lambda x: x * 10), min_size=1, max_size=4, unique=True),
+    count_seed=st.lists(st.sampled_from([1, 2, None]), min_size=4, max_size=4),
+    target=st.integers(5, 3000),
+)
+def test_search_equals_brute_force_on_random_bins(values, count_seed, target):
+    # reference: the brute-force enumerator above
+    counts = count_seed[: len(values)]
+    k = 4
+    search = ExactSearch([float(v) for v in values], counts, k)
+    for n in range(1, k + 1):
+        found = search.best(n, float(target))
+        expected = brute_force_best(values, counts, n, Fraction(target))
+        if expected is None:
+            assert found == []
+        else:
+            assert abs(abs(found[0].error) - float(expected)) <= 1e-12
+
+
+def test_alternatives_are_distinct_and_ranked():
+    search = ExactSearch([float(v) for v in (100, 150, 220, 330, 470, 680, 1000)], [None] * 7, 3)
+    found = search.best(3, 555.0, alternatives=5)
+    errors = [abs(f.error) for f in found]
+    assert errors == sorted(errors)
+    assert len({round(f.value_ohms, 9) for f in found}) == len(found)
+    for f in found:
+        assert abs(resistance(f.network) - f.value_ohms) <= 1e-9 * f.value_ohms
+
+
+def test_frontier_stops_at_required_accuracy():
+    stock = bin_from_values([100.0, 220.0, 470.0, 1000.0])
+    rows = search_frontier(320.0, stock, max_parts=5, within=1e-9)
+    # 100 + 220 = 320 exactly (hand arithmetic): two parts suffice, the search stops there
+    assert [r.parts for r in rows] == [1, 2]
+    assert rows[-1].best.error == 0
+
+
+def test_frontier_says_when_accuracy_is_out_of_reach():
+    stock = StockBin((StockItem(1000.0, count=1),), name="one part")
+    with pytest.raises(InfeasibleError, match="raise --max-parts"):
+        search_frontier(1234.0, stock, max_parts=3, within=0.001)
