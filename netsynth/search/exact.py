@@ -50,6 +50,9 @@ from netsynth.search.tables import (
 TABLE_BUDGET = 12_000_000
 #: query rows (targets × table entries) handled in one numpy step; bounds memory.
 CHUNK_ROWS = 2_000_000
+#: table look-ups one search may need before it is refused as too long; at about
+#: 0.15 µs per look-up on the reference 2-core machine this is about a minute.
+MAX_LOOKUPS = 400_000_000
 
 NEG, POS = -np.inf, np.inf
 
@@ -84,6 +87,23 @@ class ExactSearch:
         self.max_parts = max_parts
         self.tables: dict[int, Table] = {1: first_table(self.values)}
         self._grow_tables()
+        work = self.lookups(max_parts)
+        if work > MAX_LOOKUPS:
+            fits = max((n for n in range(1, max_parts) if self.lookups(n) <= MAX_LOOKUPS), default=1)
+            raise InfeasibleError(
+                f"an exhaustive search for {max_parts} parts on a bin of {len(self.values)} values needs about "
+                f"{work:.1e} table look-ups, too many to finish in reasonable time; ask for at most "
+                f"{fits} parts (--max-parts {fits}) or use a smaller bin"
+            )
+
+    def lookups(self, n: int, targets: int = 1) -> int:
+        """Table look-ups a search for n parts at ``targets`` targets will make (its cost model)."""
+        if n in self.tables:
+            return targets
+        return sum(
+            2 * self.lookups(n - n1, targets * len(self.tables[n1])) if n1 in self.tables else 10**18
+            for n1 in range(1, n // 2 + 1)
+        )
 
     # ------------------------------------------------------------ tables
 

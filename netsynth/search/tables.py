@@ -140,14 +140,27 @@ def _distinct(values: np.ndarray, parts: np.ndarray | None) -> np.ndarray:
         new = np.ones(len(v), dtype=bool)
         new[1:] = (v[1:] - v[:-1]) > SAME_VALUE_RTOL * v[1:]
         return order[new]
-    keys = [values] + [parts[:, j] for j in range(parts.shape[1] - 1, -1, -1)]
-    order = np.lexsort(keys)  # by parts, then by value
-    v, p = values[order], parts[order]
+    packed = _packed(parts)
+    order = np.lexsort((values, packed))  # by multiset, then by value
+    v, p = values[order], packed[order]
     new = np.ones(len(v), dtype=bool)
-    same_parts = np.all(p[1:] == p[:-1], axis=1)
     close = (v[1:] - v[:-1]) <= SAME_VALUE_RTOL * v[1:]
-    new[1:] = ~(same_parts & close)
+    new[1:] = ~((p[1:] == p[:-1]) & close)
     return order[new]
+
+
+def _packed(parts: np.ndarray) -> np.ndarray:
+    """One integer per row naming its sorted multiset of stock lines (exact while it fits 63 bits)."""
+    width = parts.shape[1]
+    bits = max(1, int(parts.max(initial=0)).bit_length() + 1) if parts.size else 1
+    if bits * width > 63:
+        # fall back to a row view: a unique id per distinct row
+        _, ids = np.unique(parts, axis=0, return_inverse=True)
+        return ids.ravel().astype(np.int64)
+    out = np.zeros(len(parts), dtype=np.int64)
+    for j in range(width):
+        out = (out << bits) | (parts[:, j].astype(np.int64) + 1)
+    return out
 
 
 def distinct_value_count(tables: list[Table]) -> int:
