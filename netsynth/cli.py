@@ -13,12 +13,32 @@ from functools import wraps
 
 import click
 
+from netsynth.analysis.conditions import (
+    DEFAULT_AMBIENT_C,
+    DEFAULT_POWER_FACTOR,
+    DEFAULT_VOLTAGE_FACTOR,
+    Derating,
+    OperatingPoint,
+)
+from netsynth.api import check as check_network
 from netsynth.api import make as make_design
-from netsynth.eseries import SERIES_NAMES
 from netsynth.errors import NetsynthError
-from netsynth.render.report import design_dict, design_text
+from netsynth.eseries import SERIES_NAMES
+from netsynth.render.json import check_dict, design_dict
+from netsynth.render.report import check_text, design_text
+from netsynth.search.frontier import PREFERENCES
 from netsynth.stock import StockBin, default_bin, kit_bin, load_bin
-from netsynth.values import format_ohms, parse_range, parse_ratio, parse_resistance, to_code
+from netsynth.values import (
+    format_ohms,
+    parse_current,
+    parse_power,
+    parse_range,
+    parse_ratio,
+    parse_resistance,
+    parse_tolerance,
+    parse_voltage,
+    to_code,
+)
 
 
 def _friendly(fn: Callable) -> Callable:
@@ -71,6 +91,51 @@ def _progress(message: str) -> None:
         click.echo(f"… {message}", err=True)
 
 
+def operating_options(fn: Callable) -> Callable:
+    """The options that state what the network sees and how hard its parts may work."""
+    options = [
+        click.option("--volts", metavar="V", help="Voltage across the network, e.g. 24, 1kV (peak when pulsed)."),
+        click.option("--amps", metavar="A", help="Current through the network, e.g. 2, 150mA (peak when pulsed)."),
+        click.option("--watts", metavar="W", help="Power the network dissipates, e.g. 5, 1/4W (peak when pulsed)."),
+        click.option("--duty", metavar="PCT", help="Fraction of time driven, e.g. 10% (default 100 %): power limits "
+                     "apply to the average, voltage limits to the peak."),
+        click.option("--ambient", type=float, default=DEFAULT_AMBIENT_C, show_default=True, metavar="°C",
+                     help="Air temperature around the parts; above 70 °C ratings derate linearly to zero at each "
+                     "part's max_temp (IEC 60115-1 style curve)."),
+        click.option("--derate", type=float, default=DEFAULT_POWER_FACTOR, show_default=True, metavar="F",
+                     help="Fraction of the (temperature-derated) power rating a part may use (common practice)."),
+        click.option("--volt-derate", type=float, default=DEFAULT_VOLTAGE_FACTOR, show_default=True, metavar="F",
+                     help="Fraction of the rated voltage min(max_volts, √(P·R)) a part may see."),
+        click.option("--mains", is_flag=True, help="The network is connected to mains: adds the mains caution."),
+        click.option("--spec", metavar="TOL", help="Your acceptance band around the target, e.g. 1%: reports the "
+                     "Monte Carlo yield."),
+        click.option("--temp", type=float, metavar="°C", help="Report the value band at this temperature."),
+    ]
+    for option in reversed(options):
+        fn = option(fn)
+    return fn
+
+
+def _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains):
+    given = [x for x in (volts, amps, watts) if x is not None]
+    if len(given) > 1:
+        raise click.UsageError("give only one of --volts, --amps or --watts")
+    derating = Derating(derate, volt_derate)
+    if not given:
+        if duty is not None or mains:
+            raise click.UsageError("--duty and --mains need an operating point: --volts, --amps or --watts")
+        return None, derating
+    point = OperatingPoint(
+        volts=parse_voltage(volts) if volts is not None else None,
+        amps=parse_current(amps) if amps is not None else None,
+        watts=parse_power(watts) if watts is not None else None,
+        duty=parse_ratio(duty) if duty is not None else 1.0,
+        ambient_c=ambient,
+        mains=mains,
+    )
+    return point, derating
+
+
 @cli.command()
 @click.argument("target")
 @click.option("--bin", "bin_file", type=click.Path(dir_okay=False), metavar="FILE",
@@ -81,15 +146,20 @@ def _progress(message: str) -> None:
               help="Kit value range, e.g. 10..1M (default 10..1M).")
 @click.option("--qty", type=click.IntRange(min=1), metavar="N",
               help="Kit parts per value (default: as many as needed).")
-@click.option("--max-parts", "-k", type=click.IntRange(min=1, max=12), default=4, show_default=True,
-              help="Largest part count to search.")
+@click.option("--max-parts", "-k", type=click.IntRange(min=1, max=400), metavar="K",
+              help="Largest part count to search (default 4; with an operating point, as many as needed).")
 @click.option("--within", metavar="TOL",
               help="Required accuracy, e.g. 0.1% or 50ppm: stop at the fewest parts inside it.")
 @click.option("--alternatives", type=click.IntRange(min=0, max=20), default=2, show_default=True,
               help="Runners-up to list per part count.")
+@click.option("--prefer", type=click.Choice(PREFERENCES), default="error", show_default=True,
+              help="What ranks the recommended network first: smallest error, fewest parts, or most headroom "
+              "(the last two among networks within --within, default ±1 %).")
+@operating_options
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object for scripts.")
 @_friendly
-def make(target, bin_file, series, value_range, qty, max_parts, within, alternatives, as_json):
+def make(target, bin_file, series, value_range, qty, max_parts, within, alternatives, prefer, volts, amps, watts,
+         duty, ambient, derate, volt_derate, mains, spec, temp, as_json):
     """Find the best networks for TARGET ohms from your stock.
 
     TARGET is a resistance such as 3k37, 25m or 1.8M. Without --bin or kit
@@ -102,16 +172,56 @@ def make(target, bin_file, series, value_range, qty, max_parts, within, alternat
       netsynth make 25m --bin bins/power-shelf.csv
       netsynth make 1k234 --series E12 --range 100..100k --qty 2 -k 5
       netsynth make 3k37 --within 0.1% --json
+      netsynth make 10 --watts 5 --bin bins/power-shelf.csv
+      netsynth make 1M8 --volts 1kV --series E24 --range 10k..1M
+
+    With --volts, --amps or --watts every part must stay within its derated
+    power and voltage limits; the search then goes to as many parts as the
+    physics needs, and reports the lower bound on the count.
     """
     stock = _load_stock(bin_file, series, value_range, qty)
     target_ohms = parse_resistance(target)
     tol = parse_ratio(within) if within is not None else None
-    design = make_design(target_ohms, stock, max_parts=max_parts, within=tol,
-                         alternatives=alternatives, on_progress=None if as_json else _progress)
+    point, derating = _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains)
+    design = make_design(target_ohms, stock, max_parts=max_parts, within=tol, alternatives=alternatives,
+                         on_progress=None if as_json else _progress, point=point, derating=derating, prefer=prefer,
+                         spec=parse_tolerance(spec) if spec else None, temp_c=temp)
     if as_json:
         click.echo(json.dumps(design_dict(design), indent=2, ensure_ascii=False))
     else:
         click.echo(design_text(design, show_alternatives=alternatives > 0))
+
+
+@cli.command()
+@click.argument("expression")
+@click.option("--bin", "bin_file", type=click.Path(dir_okay=False), metavar="FILE",
+              help="Stock bin the parts come from (ratings, tolerance, tcr); default: the built-in bin.")
+@click.option("--target", metavar="OHMS", help="The value the network is meant to have (for its error and yield).")
+@operating_options
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON object for scripts.")
+@_friendly
+def check(expression, bin_file, target, volts, amps, watts, duty, ambient, derate, volt_derate, mains, spec, temp,
+          as_json):
+    """Analyse a network you typed: value, bands, drift and per-part stress.
+
+    EXPRESSION uses + for series and || for parallel, with parentheses around
+    every compound part: "1k + (2k2 || 4k7)". Values in any accepted spelling.
+    Parts are matched to the bin by value for their ratings.
+
+    \b
+    Examples:
+      netsynth check "1k + (2k2 || 4k7)"
+      netsynth check "(100 + 100) || (100 + 100)" --volts 24 --bin bins/power-shelf.csv
+      netsynth check "470k + 470k + 470k + 470k" --volts 1kV --ambient 50 --json
+    """
+    stock = load_bin(bin_file) if bin_file else default_bin()
+    point, derating = _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains)
+    candidate, verdict = check_network(expression, stock, point, derating,
+                                       spec=parse_tolerance(spec) if spec else None, temp_c=temp, target=target)
+    if as_json:
+        click.echo(json.dumps(check_dict(candidate, verdict), indent=2, ensure_ascii=False))
+    else:
+        click.echo(check_text(candidate, verdict))
 
 
 @cli.command(name="bin")

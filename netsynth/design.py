@@ -7,7 +7,11 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from netsynth.analysis.conditions import Derating, OperatingPoint
+from netsynth.analysis.review import Review
+from netsynth.analysis.stress import NetworkStress
 from netsynth.network import Network
+from netsynth.search.arrays import PartBound
 
 
 @dataclass(frozen=True, slots=True)
@@ -29,6 +33,8 @@ class FrontierEntry:
     best: Candidate
     alternatives: tuple[Candidate, ...]
     proven: bool  #: True when the exhaustive search showed no n-part network does better
+    method: str = "exhaustive"  #: "exhaustive" or the regular-array family that produced it
+    stress: NetworkStress | None = None  #: per-part stress at the operating point (nodal)
 
     @property
     def parts(self) -> int:
@@ -50,9 +56,14 @@ class Design:
 
     target_ohms: float
     bin_name: str
-    max_parts: int
+    max_parts: int | None  #: None: as far as the operating point needs
     within: float | None
     frontier: tuple[FrontierEntry, ...]
-    best: Candidate  #: smallest |error| (fewest parts on ties); with ``within``, fewest parts inside it
+    best: Candidate  #: the recommended network (see ``search.frontier.pick``)
     pick_list: tuple[PickLine, ...]
+    review: Review  #: stress, bands, drift and cautions of ``best``
+    point: OperatingPoint | None
+    derating: Derating
+    prefer: str
+    bound: PartBound | None  #: lower bound on the part count at the operating point
     seconds: float

@@ -329,6 +329,7 @@ _QUANTITY = (
 )
 _POWER_RE = re.compile(_QUANTITY.format(unit="[Ww]"))
 _VOLTAGE_RE = re.compile(_QUANTITY.format(unit="[Vv]"))
+_CURRENT_RE = re.compile(_QUANTITY.format(unit="[A]"))
 
 
 def _parse_quantity(text: str, pattern: re.Pattern[str], what: str, examples: str) -> float:
@@ -379,6 +380,17 @@ def parse_voltage(text: str) -> float:
     1500.0
     """
     return _parse_quantity(text, _VOLTAGE_RE, "a voltage", "200V, 500 V or 1kV")
+
+
+def parse_current(text: str) -> float:
+    """Read a current in amperes: ``2``, ``2A``, ``150mA``, ``1.5 A``.
+
+    Examples
+    --------
+    >>> parse_current('150mA'), parse_current('2 A')
+    (0.15, 2.0)
+    """
+    return _parse_quantity(text, _CURRENT_RE, "a current", "2A, 1.5 A or 150mA")
 
 
 _TCR_RE = re.compile(rf"{_SIGN}{_NUM}\s*(?P<unit>(?i:ppm)(?:\s*/\s*(?:K|°C|℃|C))?)?")

@@ -13,7 +13,8 @@ PACKAGE = Path(__file__).resolve().parent.parent / "netsynth"
 LAYERS = [
     {"errors"},
     {"values", "eseries", "nodal"},
-    {"stock", "network"},
+    {"stock", "binfile", "network"},
+    {"analysis"},
     {"search"},
     {"design"},
     {"api", "render"},

@@ -160,7 +160,7 @@ def test_alternatives_are_distinct_and_ranked():
 
 def test_frontier_stops_at_required_accuracy():
     stock = bin_from_values([100.0, 220.0, 470.0, 1000.0])
-    rows = search_frontier(320.0, stock, max_parts=5, within=1e-9)
+    rows = search_frontier(320.0, stock, max_parts=5, within=1e-9).rows
     # 100 + 220 = 320 exactly (hand arithmetic): two parts suffice, the search stops there
     assert [r.parts for r in rows] == [1, 2]
     assert rows[-1].best.error == 0

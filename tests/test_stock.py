@@ -8,8 +8,11 @@ Wikipedia article "E series of preferred numbers"), SI prefixes from the SI Broc
 
 from __future__ import annotations
 
+import dataclasses
 import os
 import stat
+import subprocess
+import sys
 from pathlib import Path
 
 import pytest
@@ -19,6 +22,8 @@ from hypothesis import strategies as st
 from netsynth import stock
 from netsynth.errors import StockError
 from netsynth.stock import (
+    COLUMNS,
+    DEFAULT_MAX_TEMP_C,
     DEFAULT_MAX_VOLTS,
     DEFAULT_POWER_W,
     DEFAULT_TCR_PPM,
@@ -171,6 +176,16 @@ BAD_FILES = [
     ("not utf-8", b"value\n1k\n4\xb5\n", 3, None, "byte 0xb5 is not UTF-8 text"),
     # an unclosed quote
     ("open quote", 'value,note\n1k,"abc\n', 2, None, "cannot read the CSV"),
+    # a word for a temperature
+    ("max_temp word", "value,max_temp\n1k,hot\n", 2, "max_temp", "cannot read 'hot': expected a temperature in °C"),
+    # kelvin is not read: the column is in °C
+    ("max_temp kelvin", "value,max_temp\n1k,428K\n", 2, "max_temp", "cannot read '428K'"),
+    # exactly the 70 °C rated ambient (IEC 60115-1): derating could not reach zero above it
+    ("max_temp 70", "value,max_temp\n1k,70\n", 2, "max_temp", "'70' reads as 70.0; an upper category temperature"),
+    # a lower category temperature (−55 °C in the Vishay D/CRCW datasheet) in the wrong column
+    ("max_temp negative", "value,qty,max_temp\n1k,1,155\n2k,1,-55 °C\n", 3, "max_temp", "above the 70 °C rated ambient"),
+    # room temperature is below the rated ambient
+    ("max_temp 25", "value,max_temp\n1k,25C\n", 2, "max_temp", "such as 155"),
 ]
 
 
@@ -247,6 +262,13 @@ MERGES = [
     ("tcr differs", "value,qty,tcr\n1k,1,100\n1k,2,25\n", [(1000.0, 2, ""), (1000.0, 1, "")]),
     # a rating written two ways (IEC 60062: F = 1 %) is the same rating
     ("same rating two spellings", "value,qty,tolerance\n1k,1,F\n1k,2,1%\n", [(1000.0, 3, "")]),
+    # different upper category temperature (155 °C thick film, 125 °C thin film, Vishay
+    # D/CRCW and TNPW datasheets): different parts, 125 sorts first
+    ("max_temp differs", "value,qty,max_temp\n1k,1,155\n1k,2,125\n", [(1000.0, 2, ""), (1000.0, 1, "")]),
+    # the same temperature written three ways is the same rating
+    ("max_temp spellings", "value,qty,max_temp\n1k,1,155\n1k,2,155C\n1k,3,155 °C\n", [(1000.0, 6, "")]),
+    # a blank cell is the 155 °C default, so it merges with an explicit 155
+    ("max_temp blank is 155", "value,qty,max_temp\n1k,1,\n1k,2,155\n", [(1000.0, 3, "")]),
 ]
 
 
@@ -490,6 +512,13 @@ BAD_ITEMS = [
     ({"ohms": 1.0, "tcr_ppm": -1.0}, "tcr_ppm"),  # TCR is a magnitude
     ({"ohms": 1.0, "extra": (("qty", "3"),)}, "extra"),  # collides with a real column
     ({"ohms": 1.0, "extra": (("lot", ""),)}, "extra"),  # blank text would not survive a save
+    ({"ohms": 1.0, "extra": (("Max Temp", "125"),)}, "extra"),  # the max_temp column, respelled
+    ({"ohms": 1.0, "max_temp_c": 70.0}, "max_temp_c"),  # the rated ambient itself (IEC 60115-1)
+    ({"ohms": 1.0, "max_temp_c": 25.0}, "max_temp_c"),  # room temperature, below the rated ambient
+    ({"ohms": 1.0, "max_temp_c": float("nan")}, "max_temp_c"),  # not a number
+    ({"ohms": 1.0, "max_temp_c": float("inf")}, "max_temp_c"),  # never derates
+    ({"ohms": 1.0, "max_temp_c": True}, "max_temp_c"),  # a bool is not a temperature
+    ({"ohms": 1.0, "max_temp_c": "155"}, "max_temp_c"),  # text: read it with load_bin instead
 ]
 
 
@@ -573,3 +602,114 @@ def test_power_shelf() -> None:
     assert {i.power_rating_w for i in b.items} == {0.25, 1.0, 5.0}
     assert b.values[0] == 0.1  # IEC 60062 RKM: R1 = 0.1 Ω
     assert len([i for i in b.items if i.ohms == 10.0]) == 3  # same value, three different parts
+
+
+# --------------------------------------------------------------------------- upper category temperature
+
+# (id, cell, °C read)
+MAX_TEMP_CELLS = [
+    # Yageo CFR/MFR and Vishay D/CRCW datasheets: derate linearly to 0 W at 155 °C
+    ("bare", "155", 155.0),
+    # the same, with the unit letter
+    ("C", "155C", 155.0),
+    # with a space and the degree sign
+    ("space degree", "155 °C", 155.0),
+    # Vishay TNPW thin film, climatic category 55/125/56: 125 °C
+    ("degree", "125°C", 125.0),
+    # the single character U+2103 DEGREE CELSIUS
+    ("celsius sign", "125 \u2103", 125.0),
+    # a decimal temperature is read as written
+    ("decimal", "130.5", 130.5),
+    # blank: the project default, 155 °C (the datasheets above)
+    ("blank", "", 155.0),
+]
+
+
+@pytest.mark.parametrize("cell, temp_c", [c[1:] for c in MAX_TEMP_CELLS], ids=[c[0] for c in MAX_TEMP_CELLS])
+def test_max_temp_cells(tmp_path: Path, cell: str, temp_c: float) -> None:
+    (item,) = load_bin(write(tmp_path, f"value,max_temp\n1k,{cell}\n")).items
+    assert item.max_temp_c == temp_c
+
+
+def test_max_temp_header_spelling_and_missing_column(tmp_path: Path) -> None:
+    # 'Max Temp' is the max_temp column (space for underscore, any case); no column = default.
+    (item,) = load_bin(write(tmp_path, "Value,Max Temp\n1k,125\n")).items
+    assert item.max_temp_c == 125.0  # Vishay TNPW: 55/125/56
+    (item,) = load_bin(write(tmp_path, "value\n1k\n", "plain.csv")).items
+    assert item.max_temp_c == 155.0 and item.extra == ()
+
+
+def test_max_temp_default_and_field() -> None:
+    # Yageo CFR/MFR and Vishay D/CRCW: rated at 70 °C, derated linearly to 0 W at 155 °C.
+    assert DEFAULT_MAX_TEMP_C == 155.0
+    assert StockItem(1.0).max_temp_c == 155.0
+    assert StockItem(1.0, max_temp_c=125).max_temp_c == 125.0
+    assert isinstance(StockItem(1.0, max_temp_c=125).max_temp_c, float)
+    assert StockItem(1.0, max_temp_c=70.5).max_temp_c == 70.5  # anything above 70 °C is accepted
+    # Declared right after tcr_ppm, but keyword-only: positional calls keep their meaning.
+    names = [f.name for f in dataclasses.fields(StockItem)]
+    assert names[names.index("tcr_ppm") + 1] == "max_temp_c"
+    assert StockItem(1.0, 2, 0.01, 0.25, 200.0, 100.0, "0805").package == "0805"
+    assert StockItem(1.0, max_temp_c=125.0) != StockItem(1.0)  # part of equality
+    assert COLUMNS.index("max_temp") == COLUMNS.index("tcr") + 1
+
+
+def test_max_temp_error_names_file_line_field(tmp_path: Path) -> None:
+    path = write(tmp_path, "# drawer C\nvalue,qty,max_temp\n1k,1,155\n2k2,4,65\n")
+    with pytest.raises(StockError) as info:
+        load_bin(path)
+    assert str(info.value) == (
+        f"{path}, line 4, field 'max_temp': '65' reads as 65.0; an upper category temperature must be "
+        "a finite number of °C above the 70 °C rated ambient (IEC 60115-1), such as 155 (thick film) "
+        "or 125 (some thin film)")
+
+
+def test_saved_format_with_max_temp(tmp_path: Path) -> None:
+    # A line away from the default writes the column (after tcr) for every line.
+    path = tmp_path / "out.csv"
+    save_bin(StockBin((StockItem(4700.0, 10), StockItem(0.47, 2, max_temp_c=125.0))), path)
+    assert path.read_text(encoding="utf-8") == (
+        "value,qty,tolerance,watts,max_volts,tcr,max_temp,package,location,note\n"
+        "R47,2,1%,0.25,200,100,125,,,\n"
+        "4k7,10,1%,0.25,200,100,155,,,\n"
+    )
+
+
+def test_round_trip_max_temp(tmp_path: Path) -> None:
+    b = StockBin((
+        StockItem(1000.0, 1, max_temp_c=125.0, location="A1"),  # Vishay TNPW thin film
+        StockItem(1000.0, 2, location="A2"),  # default 155 °C: a different part, kept apart
+        StockItem(10.0, None, 0.05, 1.0, 500.0, 250.0, "axial", max_temp_c=70.0 + 1e-9),
+        StockItem(0.1, 3, max_temp_c=275.0),  # a wirewound-style high rating, made up
+    ), name="temps")
+    path = tmp_path / "out.csv"
+    save_bin(b, path)
+    assert load_bin(path).items == b.items
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.tuples(items, st.floats(70, 1000, exclude_min=True)), min_size=1, max_size=6))
+def test_round_trip_property_max_temp(tmp_path_factory, parts: list[tuple[StockItem, float]]) -> None:
+    # As test_round_trip_property, with any upper category temperature above 70 °C.
+    b = StockBin(tuple(dataclasses.replace(item, max_temp_c=t) for item, t in parts))
+    keys = [(i.ohms, i.tolerance, i.power_rating_w, i.max_volts, i.tcr_ppm, i.max_temp_c) for i in b.items]
+    if len(set(keys)) != len(keys):
+        return
+    path = tmp_path_factory.mktemp("rt") / "out.csv"
+    save_bin(b, path)
+    assert load_bin(path).items == b.items
+
+
+# --------------------------------------------------------------------------- module split
+
+
+@pytest.mark.parametrize("first", ["netsynth.binfile", "netsynth.stock"])
+def test_either_module_imports_first(first: str) -> None:
+    # stock re-exports binfile's functions at its end and binfile imports stock at its top:
+    # a fresh interpreter must import either one first without a circular-import failure.
+    code = (f"import {first}; import netsynth.stock as s, netsynth.binfile as b; "
+            "assert s.load_bin is b.load_bin and s.save_bin is b.save_bin")
+    root = Path(__file__).resolve().parent.parent
+    env = {**os.environ, "PYTHONPATH": str(root)}
+    done = subprocess.run([sys.executable, "-c", code], cwd=root, env=env, capture_output=True, text=True)
+    assert done.returncode == 0, done.stderr

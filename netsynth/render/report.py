@@ -1,59 +1,18 @@
-"""Plain-text and JSON forms of a :class:`~netsynth.api.Design`.
-
-The JSON contract (stable; later work extends it, never breaks it)::
-
-    {
-      "target_ohms": float,
-      "bin": str, "max_parts": int, "within": float | null,
-      "frontier": [            # one entry per part count, ascending
-        {"parts": int, "expression": str, "value_ohms": float,
-         "error": float,       # signed relative error, value / target - 1
-         "verified_ohms": float, "proven": bool,
-         "alternatives": [{"parts", "expression", "value_ohms", "error", "verified_ohms"}]}
-      ],
-      "best": {"parts", "expression", "value_ohms", "error", "verified_ohms"},
-      "pick_list": [{"ohms": float, "count": int, "location": str}],
-      "verification": {"method": str, "rtol": float},
-      "seconds": float
-    }
-"""
+"""Plain-text reports of a design (``make``) and of a checked network (``check``)."""
 
 from __future__ import annotations
 
-from typing import Any
+import math
 
+from netsynth.analysis.review import Review
 from netsynth.design import Candidate, Design
 from netsynth.nodal import VERIFY_RTOL
+from netsynth.render.compact import LEGEND, compact, is_compacted
 from netsynth.render.diagram import draw
 from netsynth.values import format_error, format_ohms, to_code
 
-
-def candidate_dict(c: Candidate) -> dict[str, Any]:
-    return {
-        "parts": c.parts,
-        "expression": c.expression,
-        "value_ohms": c.value_ohms,
-        "error": c.error,
-        "verified_ohms": c.verified_ohms,
-    }
-
-
-def design_dict(d: Design) -> dict[str, Any]:
-    """The JSON-ready dict of the contract above."""
-    return {
-        "target_ohms": d.target_ohms,
-        "bin": d.bin_name,
-        "max_parts": d.max_parts,
-        "within": d.within,
-        "frontier": [
-            {**candidate_dict(e.best), "proven": e.proven, "alternatives": [candidate_dict(a) for a in e.alternatives]}
-            for e in d.frontier
-        ],
-        "best": candidate_dict(d.best),
-        "pick_list": [{"ohms": p.ohms, "count": p.count, "location": p.location} for p in d.pick_list],
-        "verification": {"method": "nodal analysis (conductance matrix solve)", "rtol": VERIFY_RTOL},
-        "seconds": round(d.seconds, 4),
-    }
+#: networks with more parts than this are described, not drawn
+DRAW_PARTS = 12
 
 
 def _ppm(error: float) -> str:
@@ -64,42 +23,140 @@ def _pct(error: float) -> str:
     return "0" if error == 0 else f"{error * 100:+.4f}"
 
 
+def _headroom(h: float) -> str:
+    return "∞" if math.isinf(h) else f"{h:.2f}×"
+
+
+def table(rows: list[tuple[str, ...]], align: str) -> list[str]:
+    """Rows of cells as aligned text; ``align`` has one 'l' or 'r' per column."""
+    widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
+    out = []
+    for r in rows:
+        cells = [c.rjust(w) if a == "r" else c.ljust(w) for c, w, a in zip(r, widths, align)]
+        out.append("  ".join(cells).rstrip())
+    return out
+
+
+def _proof(entry) -> str:
+    if entry.proven:
+        return "proven best"
+    return "best found" if entry.method == "exhaustive" else f"array: {entry.method}"
+
+
 def design_text(d: Design, show_alternatives: bool = False) -> str:
-    """The frontier table, the drawing of the recommended network, its pick list and check."""
-    out = [f"Target {format_ohms(d.target_ohms, 6)}   bin: {d.bin_name}   up to {d.max_parts} parts"]
+    """The frontier table, the recommended network drawn, its pick list, checks and cautions."""
+    limit = f"up to {d.max_parts} parts" if d.max_parts else "parts as needed"
+    out = [f"Target {format_ohms(d.target_ohms, 6)}   bin: {d.bin_name}   {limit}"]
     if d.within is not None:
         out[0] += f"   within ±{format_error(d.within).lstrip('+')}"
+    if d.point is not None:
+        out.append(
+            f"Operating point: {d.point.describe()}; parts derated to {d.derating.power_factor:.0%} of power "
+            f"and {d.derating.voltage_factor:.0%} of voltage"
+        )
+    if d.bound is not None:
+        out.append(f"Lower bound: {d.bound.explain()}")
     out.append("")
-    rows = [("parts", "network", "value", "error %", "ppm", "proof")]
+    stressed = d.point is not None
+    head = ("parts", "network", "value", "error %", "ppm") + (("headroom",) if stressed else ()) + ("proof",)
+    rows = [head]
+    shown = [e.best for e in d.frontier]
     for e in d.frontier:
         c = e.best
-        mark = "proven best" if e.proven else "best found"
-        rows.append((str(c.parts), c.expression, format_ohms(c.value_ohms, 6), _pct(c.error), _ppm(c.error), mark))
+        cells = (str(c.parts), compact(c.network), format_ohms(c.value_ohms, 6), _pct(c.error), _ppm(c.error))
+        if stressed:
+            cells += (_headroom(e.stress.headroom) if e.stress else "",)
+        rows.append(cells + (_proof(e),))
         if show_alternatives:
             for a in e.alternatives:
-                rows.append(("", "  or " + a.expression, format_ohms(a.value_ohms, 6), _pct(a.error), _ppm(a.error), ""))
-    widths = [max(len(r[i]) for r in rows) for i in range(len(rows[0]))]
-    align = ["r", "l", "r", "r", "r", "l"]
-    for r in rows:
-        cells = [cell.rjust(w) if a == "r" else cell.ljust(w) for cell, w, a in zip(r, widths, align)]
-        out.append("  ".join(cells).rstrip())
+                alt = ("", "  or " + compact(a.network), format_ohms(a.value_ohms, 6), _pct(a.error), _ppm(a.error))
+                rows.append(alt + (("",) if stressed else ()) + ("",))
+                shown.append(a)
+    out += table(rows, "rlrrr" + ("r" if stressed else "") + "l")
+    if any(is_compacted(c.network) for c in shown):
+        out.append(f"({LEGEND})")
     b = d.best
     off = "exact" if b.error == 0 else format_error(b.error)
-    out += ["", f"Recommended: {b.expression}  =  {format_ohms(b.value_ohms, 6)}  ({off})", ""]
-    out.append(draw(b.network))
+    out += ["", f"Recommended ({d.prefer} first): {b.expression}  =  {format_ohms(b.value_ohms, 6)}  ({off})", ""]
+    out.append(_drawing(b))
     out.append("")
-    picks = ", ".join(
-        f"{p.count} × {to_code(p.ohms)}" + (f" ({p.location})" if p.location else "") for p in d.pick_list
-    )
+    picks = ", ".join(f"{p.count} × {to_code(p.ohms)}" + (f" ({p.location})" if p.location else "") for p in d.pick_list)
     out.append(f"Take from the bin: {picks}")
-    rel = abs(b.verified_ohms / b.value_ohms - 1)
-    out.append(
-        f"Verified: nodal analysis gives {format_ohms(b.verified_ohms, 9)} "
+    out.append(_verified(b))
+    if all(e.proven for e in d.frontier):
+        out.append("Proven best: no network of that many parts from this bin lands closer (exhaustive search).")
+    else:
+        out.append(
+            "Rows marked 'best found' or 'array' are the best the search found, not proven: with an operating "
+            "point larger counts come from regular arrays."
+        )
+    out += [""] + review_lines(d.review)
+    return "\n".join(out)
+
+
+def _drawing(c: Candidate) -> str:
+    if c.parts <= DRAW_PARTS:
+        return draw(c.network)
+    return f"{c.parts} parts: {compact(c.network)}   ({LEGEND})"
+
+
+def _verified(c: Candidate) -> str:
+    rel = abs(c.verified_ohms / c.value_ohms - 1)
+    return (
+        f"Verified: nodal analysis gives {format_ohms(c.verified_ohms, 9)} "
         f"(agrees within {rel:.1e}; every row checked to {VERIFY_RTOL:.0e})"
     )
-    out.append(
-        "Proven best: no network of that many parts from this bin lands closer (exhaustive search)."
-        if all(e.proven for e in d.frontier)
-        else "Rows marked 'best found' were not searched exhaustively."
-    )
-    return "\n".join(out)
+
+
+def review_lines(r: Review) -> list[str]:
+    """Bands, drift, per-part stress, cautions and notes."""
+    b, mc = r.band, r.monte_carlo
+    low, high = b.worst_rel
+    out = [
+        f"Tolerance: worst case {format_ohms(b.low_ohms, 6)} .. {format_ohms(b.high_ohms, 6)} "
+        f"({low * 100:+.3g} % .. {high * 100:+.3g} %); statistical ±{b.rss_rel * 100:.3g} % (RSS), "
+        f"σ {b.sigma_rel * 100:.3g} % (parts uniform in their band, independent)",
+        f"Monte Carlo ({mc.samples} builds, seed {mc.seed}): σ {mc.sigma_rel * 100:.3g} %, "
+        f"99 % of builds within {mc.low_rel * 100:+.3g} % .. {mc.high_rel * 100:+.3g} %"
+        + (f"; yield within ±{mc.spec * 100:.3g} % of target: {mc.yield_fraction * 100:.1f} %" if mc.spec is not None else ""),
+        f"Temperature: up to ±{r.tcr_ppm:.3g} ppm/K"
+        + (
+            f"; at {r.temp_c:g} °C: {format_ohms(r.at_temp_ohms[0], 6)} .. {format_ohms(r.at_temp_ohms[1], 6)}"
+            if r.at_temp_ohms is not None
+            else ""
+        ),
+    ]
+    if r.not_in_bin:
+        out.append("Not in the bin (bin defaults assumed): " + ", ".join(to_code(v) for v in r.not_in_bin))
+    if r.stress is not None:
+        s = r.stress
+        out += [
+            "",
+            f"At {r.point.describe()}: {s.volts:.4g} V, {s.amps:.4g} A, {s.watts:.4g} W in the network",
+        ]
+        rows = [("#", "part", "volts", "amps", "watts", "limit W", "limit V", "headroom", "")]
+        for i, p in enumerate(s.parts, start=1):
+            rows.append((
+                str(i), to_code(p.ohms), f"{p.volts:.4g}", f"{p.amps:.4g}", f"{p.watts:.4g}",
+                f"{p.limit_watts:.4g}", f"{p.limit_volts:.4g}", _headroom(p.headroom),
+                "OVER LIMIT" if not p.ok else "",
+            ))
+        out += table(rows, "rlrrrrrrl")
+    for c in r.cautions:
+        out.append(f"Caution: {c}")
+    for n in r.notes:
+        out.append(f"Note: {n}")
+    return out
+
+
+def check_text(c: Candidate, r: Review) -> str:
+    """Report of one network the user typed."""
+    out = [
+        f"Network: {c.expression}  ({c.parts} part{'s' if c.parts > 1 else ''})",
+        f"Value: {format_ohms(c.value_ohms, 6)}" + ("" if c.error == 0 else f"  (target error {format_error(c.error)})"),
+        _verified(c),
+        "",
+        _drawing(c),
+        "",
+    ]
+    return "\n".join(out + review_lines(r))

@@ -1,0 +1,1 @@
+"""Analysis of one network under an operating point: stress, derating, tolerance, temperature."""

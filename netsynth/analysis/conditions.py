@@ -1,0 +1,126 @@
+"""What the network sees (the operating point) and how hard its parts may be driven (derating).
+
+Derating line (IEC 60115-1 style, as drawn in Yageo CFR/MFR and Vishay D/CRCW
+datasheets): a part may dissipate its full rated power up to the rated ambient
+temperature (70 °C) and linearly less above it, reaching zero at its upper
+category temperature (155 °C for common film parts; a bin line may say otherwise)::
+
+    P_allowed(T) = P_rated                                   T ≤ 70 °C
+                 = P_rated · (T_max − T) / (T_max − 70 °C)   70 °C < T < T_max
+                 = 0                                          T ≥ T_max
+
+netsynth then applies the user's derating factors (design margins, common
+practice): the part may run at ``power_factor`` of that line, and at
+``voltage_factor`` of its rated voltage, which is the lower of the limiting element
+voltage and √(P_rated·R) (the rated continuous working voltage; Yageo and KOA
+datasheet notes).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from netsynth.errors import InfeasibleError
+
+#: °C; rated ambient temperature of IEC 60115-1, used by the datasheets above ("P70").
+RATED_AMBIENT_C = 70.0
+#: fraction of the derated power a part may dissipate. Common practice, no source:
+#: hobby and industry margins of 50 % to 75 % are quoted; 50 % keeps a ¼ W part cool to touch.
+DEFAULT_POWER_FACTOR = 0.5
+#: fraction of the rated voltage a part may see. Common practice: 80 % is the voltage
+#: stress ratio quoted for film resistors from NASA EEE-INST-002 (second-hand, verify).
+DEFAULT_VOLTAGE_FACTOR = 0.8
+#: °C; a bench at room temperature. Inside a warm enclosure, say so with --ambient.
+DEFAULT_AMBIENT_C = 25.0
+#: V; above this the network or a part is treated as hazardous (the issue's threshold;
+#: PCB-spacing practice treats 60 V DC / 30 V AC as hazardous).
+CAUTION_VOLTS = 50.0
+#: a part using more than this fraction of its derated limit is "near its rating".
+NEAR_LIMIT = 0.8
+
+
+@dataclass(frozen=True, slots=True)
+class OperatingPoint:
+    """What the whole network sees: exactly one of ``volts``, ``amps`` or ``watts``.
+
+    ``duty`` is the fraction of time the network is driven (1 for continuous): power
+    limits are checked against the average power ``duty × peak``, voltage limits
+    against the peak. Short pulses can exceed the average rating only as far as the
+    part maker's pulse-load curve allows; netsynth does not model that.
+    """
+
+    volts: float | None = None
+    amps: float | None = None
+    watts: float | None = None
+    duty: float = 1.0
+    ambient_c: float = DEFAULT_AMBIENT_C
+    mains: bool = False
+
+    def __post_init__(self) -> None:
+        given = [(n, v) for n, v in (("volts", self.volts), ("amps", self.amps), ("watts", self.watts)) if v is not None]
+        if len(given) != 1:
+            raise InfeasibleError("give exactly one of --volts, --amps or --watts for the operating point")
+        name, value = given[0]
+        if not (value > 0 and math.isfinite(value)):
+            raise InfeasibleError(f"--{name} {value!r}: must be a finite value above zero")
+        if not (0 < self.duty <= 1):
+            raise InfeasibleError(f"--duty {self.duty!r}: the duty cycle is a fraction above 0 and at most 1 (100 %)")
+        if not (-100 <= self.ambient_c <= 300):
+            raise InfeasibleError(f"--ambient {self.ambient_c!r} °C: expected a temperature from -100 to 300 °C")
+
+    def volts_across(self, ohms: float) -> float:
+        """Peak voltage across a network of ``ohms`` at this operating point (Ohm's law)."""
+        if self.volts is not None:
+            return self.volts
+        if self.amps is not None:
+            return self.amps * ohms
+        return math.sqrt(self.watts * ohms)  # P = V²/R
+
+    def describe(self) -> str:
+        """Short text: '24 V', '2 A', '5 W', with duty and ambient when not the defaults."""
+        if self.volts is not None:
+            text = f"{self.volts:g} V"
+        elif self.amps is not None:
+            text = f"{self.amps:g} A"
+        else:
+            text = f"{self.watts:g} W"
+        if self.duty < 1:
+            text += f" at {self.duty * 100:g} % duty"
+        return text + f", ambient {self.ambient_c:g} °C"
+
+
+@dataclass(frozen=True, slots=True)
+class Derating:
+    """The user's margins on each part's ratings (fractions, 0 < f ≤ 1)."""
+
+    power_factor: float = DEFAULT_POWER_FACTOR
+    voltage_factor: float = DEFAULT_VOLTAGE_FACTOR
+
+    def __post_init__(self) -> None:
+        for name, f in (("--derate", self.power_factor), ("--volt-derate", self.voltage_factor)):
+            if not (0 < f <= 1):
+                raise InfeasibleError(f"{name} {f!r}: a derating factor is a fraction above 0 and at most 1")
+
+
+def temperature_fraction(ambient_c: float, max_temp_c: float, rated_ambient_c: float = RATED_AMBIENT_C) -> float:
+    """Fraction of rated power allowed at ``ambient_c`` on the linear derating line.
+
+    >>> temperature_fraction(70.0, 155.0), temperature_fraction(155.0, 155.0)
+    (1.0, 0.0)
+    """
+    if ambient_c <= rated_ambient_c:
+        return 1.0
+    if ambient_c >= max_temp_c:
+        return 0.0
+    return (max_temp_c - ambient_c) / (max_temp_c - rated_ambient_c)
+
+
+def limit_watts(power_rating_w: float, max_temp_c: float, ambient_c: float, derating: Derating) -> float:
+    """Average power (W) a part may dissipate: rating × derating line × power factor."""
+    return power_rating_w * temperature_fraction(ambient_c, max_temp_c) * derating.power_factor
+
+
+def limit_volts(ohms: float, power_rating_w: float, max_volts: float, derating: Derating) -> float:
+    """Peak voltage (V) a part may see: voltage factor × min(LEV, √(P_rated·R))."""
+    return derating.voltage_factor * min(max_volts, math.sqrt(power_rating_w * ohms))

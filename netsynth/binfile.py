@@ -1,0 +1,452 @@
+"""Bin files: read a stock bin from CSV (:func:`load_bin`) and write one back (:func:`save_bin`).
+
+Both are re-exported by :mod:`netsynth.stock`, the public home of the bin API; the data types
+(:class:`~netsynth.stock.StockItem`, :class:`~netsynth.stock.StockBin`), the defaults and the
+merge rule live there.
+
+Map of the module
+-----------------
+``load_bin``   read a bin file (format below); every problem is one ``StockError`` line
+``save_bin``   write the same format atomically (temp file in the same folder, fsync, replace)
+
+Bin file format
+---------------
+A CSV file (UTF-8; a byte-order mark is tolerated) with a header row and one row per stock
+line.  Columns come in any order and are matched without regard to case, surrounding spaces,
+or a space/hyphen in place of the underscore (``Max Volts`` is ``max_volts``):
+
+==========  ==============================================================================
+column      meaning (blank cell: the default shown)
+==========  ==============================================================================
+value       required; a resistance as ``values.parse_resistance`` reads it: 4k7, 4.7k, R47, 1M
+qty         whole number of parts on hand; blank means as many as needed
+tolerance   e.g. ``1%``, ``0.1 %``, ``F`` (IEC 60062 letter); blank = 1 %
+watts       power rating at the rated ambient (70 °C), e.g. ``0.25``, ``1/4W``; blank = 0.25 W
+max_volts   limiting element voltage, e.g. ``200``, ``200V``; blank = 200 V
+tcr         temperature coefficient magnitude in ppm/K, e.g. ``100``, ``50ppm``; blank = 100
+max_temp    upper category temperature in °C, where derating reaches zero power, e.g.
+            ``155``, ``155C``, ``155 °C``, ``125°C``; above 70; blank = 155
+package     free text (``0805``, ``axial``)
+location    free text (``drawer A3``)
+note        free text
+(others)    kept in ``StockItem.extra`` and otherwise ignored
+==========  ==============================================================================
+
+* A line whose first cell starts with ``#`` is a comment; comments may come before the header.
+  Fully blank lines (also ``,,,``) are skipped.
+* A row may have fewer cells than the header (the missing cells are blank) but not more.
+* Rows with ``qty`` 0 are read and checked but kept out of the bin: a labelled but empty
+  drawer is a useful line in the file, yet nothing in it can go into a network.  Because of
+  this, ``save_bin(load_bin(f))`` drops such rows.
+* Rows with the same value **and** the same ratings (tolerance, watts, max_volts, tcr,
+  max_temp) are the same part and are merged on purpose: quantities are summed (a blank qty
+  on any of them makes the merged line unlimited), and the text fields (package, location,
+  note and extra columns) keep each distinct non-blank text, joined with ``"; "`` in file
+  order.  Rows with the same value but different ratings stay separate items: they are
+  different parts.
+* ``save_bin`` writes every column of :data:`~netsynth.stock.COLUMNS` except ``max_temp``,
+  which it writes only when some line differs from the default (155 °C); a bin that never
+  used the column saves exactly as before the column existed.
+* Decimal commas: ``values`` decides; a quoted ``"4,7k"`` is passed to it and its reason for
+  refusing is passed on.  An unquoted ``4,7k`` splits into two cells and usually shows up as a
+  row with more cells than the header.
+
+Every problem raises :class:`netsynth.errors.StockError` with one line naming the file, the
+line number and the field, e.g.
+``bins/shop.csv, line 7, field 'qty': cannot read 'ten': expected a whole number of parts, or
+blank for as many as needed``.
+
+Import order: this module imports :mod:`netsynth.stock` at its top, and ``stock`` imports
+this module at its end.  Importing either one first works, because the package
+``netsynth/__init__.py`` always loads ``stock`` before anything reaches ``binfile``.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import os
+import re
+import secrets
+import stat
+from collections.abc import Callable, Iterable
+from decimal import Decimal
+
+from netsynth import values
+from netsynth.errors import StockError, ValueParseError
+from netsynth.stock import (
+    COLUMNS,
+    DEFAULT_MAX_TEMP_C,
+    DEFAULT_MAX_VOLTS,
+    DEFAULT_POWER_W,
+    DEFAULT_TCR_PPM,
+    DEFAULT_TOLERANCE,
+    StockBin,
+    StockItem,
+    _merge,
+    _normalize_column,
+    _problem_max_temp,
+    _problem_ohms,
+    _problem_power,
+    _problem_tcr,
+    _problem_tolerance,
+    _problem_volts,
+)
+
+__all__ = ["load_bin", "save_bin"]
+
+
+# --------------------------------------------------------------------------- reading
+
+
+def _read_text(path: str) -> str:
+    try:
+        with open(path, "rb") as f:
+            data = f.read()
+    except FileNotFoundError:
+        raise StockError(f"cannot open {path!r}: no such file; check the path, "
+                         "or leave the bin out to use the built-in default") from None
+    except IsADirectoryError:
+        raise StockError(f"cannot open {path!r}: it is a folder; give the path of a bin file (.csv)") from None
+    except PermissionError:
+        raise StockError(f"cannot open {path!r}: permission denied; check the file's permissions") from None
+    except OSError as e:
+        raise StockError(f"cannot open {path!r}: {e.strerror or e}") from None
+    try:
+        return data.decode("utf-8-sig")
+    except UnicodeDecodeError as e:
+        line = data[: e.start].count(b"\n") + 1
+        raise StockError(f"{path}, line {line}: byte 0x{data[e.start]:02x} is not UTF-8 text; "
+                         "save the file as UTF-8 (CSV UTF-8 in a spreadsheet)") from None
+
+
+def _parse_qty(text: str) -> int | None:
+    if not text:
+        return None
+    if not re.fullmatch(r"\+?[0-9]+", text):
+        raise ValueParseError(f"cannot read {text!r}: expected a whole number of parts, "
+                              "or blank for as many as needed")
+    return int(text)
+
+
+# A number of degrees Celsius, with or without the unit: 155, 155C, 155 °C, 125°C, 125 ℃.
+_TEMP_RE = re.compile(r"(?P<num>[+-]?(?:\d+\.?\d*|\.\d+))\s*(?:°\s*[Cc]|\u2103|[Cc])?")
+
+
+def _parse_temp_c(text: str) -> float:
+    """Read a temperature in °C (``155``, ``155C``, ``155 °C``, ``125°C``); range checked apart."""
+    s = text.strip()
+    m = _TEMP_RE.fullmatch(s)
+    if not m:
+        raise ValueParseError(f"cannot read {s!r}: expected a temperature in °C such as 155, "
+                              "155C or 125 °C")
+    return float(m["num"])
+
+
+# field -> (parser of a non-blank cell, default for a blank cell, range check)
+_FIELDS: dict[str, tuple[Callable[[str], float], float, Callable[[float], str | None]]] = {
+    "tolerance": (values.parse_tolerance, DEFAULT_TOLERANCE, _problem_tolerance),
+    "watts": (values.parse_power, DEFAULT_POWER_W, _problem_power),
+    "max_volts": (values.parse_voltage, DEFAULT_MAX_VOLTS, _problem_volts),
+    "tcr": (values.parse_tcr, DEFAULT_TCR_PPM, _problem_tcr),
+    "max_temp": (_parse_temp_c, DEFAULT_MAX_TEMP_C, _problem_max_temp),
+}
+
+
+def _header(rows: Iterable[tuple[int, list[str]]], path: str) -> tuple[int, list[str]]:
+    """The first row that is not a comment or blank, as (line, cells)."""
+    for line, cells in rows:
+        return line, cells
+    raise StockError(f"{path}: the file has no header row (it is empty, or only comments and "
+                     "blank lines); start it with a header such as value,qty,tolerance")
+
+
+def _rows(text: str, path: str) -> Iterable[tuple[int, list[str]]]:
+    """(first line number, stripped cells) of each row that is not a comment or blank."""
+    reader = csv.reader(io.StringIO(text, newline=""), strict=True)
+    while True:
+        line = reader.line_num + 1
+        try:
+            cells = next(reader)
+        except StopIteration:
+            return
+        except csv.Error as e:
+            raise StockError(f"{path}, line {line}: cannot read the CSV ({e}); check the quotes "
+                             "on this line") from None
+        cells = [cell.strip() for cell in cells]
+        if not any(cells) or cells[0].startswith("#"):
+            continue
+        yield line, cells
+
+
+def load_bin(path: str | os.PathLike) -> StockBin:
+    """Read a stock bin file (format in the module docstring).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The CSV file.  Its path, as given, names the bin and starts every error message.
+
+    Returns
+    -------
+    StockBin
+        One item per distinct (value, ratings); rows with qty 0 are left out.
+
+    Raises
+    ------
+    StockError
+        One line naming the file, the line and the field, for a missing or unreadable file,
+        an empty file, a header without ``value``, a repeated column, a row with more cells
+        than the header, a cell that cannot be read, or a file with no parts.
+    """
+    name = os.fspath(path)
+    if isinstance(name, bytes):
+        name = os.fsdecode(name)
+    rows = _rows(_read_text(name), name)
+    header_line, header = _header(rows, name)
+
+    columns = [_normalize_column(cell) for cell in header]
+    if "value" not in columns:
+        found = ", ".join(repr(cell) for cell in header if cell) or "none"
+        raise StockError(f"{name}, line {header_line}: the header has no 'value' column "
+                         f"(columns found: {found}); the first row that is not a comment must "
+                         "name the columns, e.g. value,qty,tolerance")
+    for i, key in enumerate(columns):
+        if key and key in columns[:i]:
+            raise StockError(f"{name}, line {header_line}: the header names column "
+                             f"{header[i]!r} twice (columns {columns.index(key) + 1} and {i + 1}); "
+                             "keep one")
+
+    items: list[StockItem] = []
+    seen_row = False
+    for line, cells in rows:
+        seen_row = True
+        where = f"{name}, line {line}"
+        if len(cells) > len(header):
+            raise StockError(f"{where}: the row has {len(cells)} cells but the header names "
+                             f"{len(header)} column{'s' if len(header) > 1 else ''}; remove the "
+                             "extra cells, or quote a cell that contains a comma")
+        cells += [""] * (len(header) - len(cells))
+        row = {}
+        extra = []
+        for number, (key, title, cell) in enumerate(zip(columns, header, cells), start=1):
+            if key in COLUMNS:
+                row[key] = cell
+            elif cell:
+                if not key:
+                    raise StockError(f"{where}, column {number}: the cell "
+                                     f"{cell!r} is under a column with no name; name the column "
+                                     "in the header or remove the cell")
+                extra.append((title, cell))
+        items_row = _read_row(row, extra, where)
+        if items_row is not None:
+            items.append(items_row)
+
+    if not seen_row:
+        raise StockError(f"{name}: the header is on line {header_line} but no row lists a part; "
+                         "add rows such as 4k7,10")
+    merged = [item for item in _merge(items) if item.count != 0]
+    if not merged:
+        raise StockError(f"{name}: every row has qty 0, so the bin holds no parts; "
+                         "give a quantity, or leave qty blank for as many as needed")
+    return StockBin(tuple(merged), name=name)
+
+
+def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str) -> StockItem:
+    def fail(field: str, reason: str) -> StockError:
+        return StockError(f"{where}, field '{field}': {reason}")
+
+    text = row.get("value", "")
+    if not text:
+        raise fail("value", "the value is blank; every row needs a resistance such as 4k7, "
+                            "or a # at the start to make it a comment")
+    try:
+        ohms = values.parse_resistance(text)
+    except ValueParseError as e:
+        raise fail("value", str(e)) from None
+    if problem := _problem_ohms(ohms):
+        raise fail("value", f"{text!r} reads as {ohms!r} ohms; {problem}")
+    try:
+        count = _parse_qty(row.get("qty", ""))
+    except ValueParseError as e:
+        raise fail("qty", str(e)) from None
+
+    numbers_: dict[str, float] = {}
+    for field, (parse, default, check) in _FIELDS.items():
+        cell = row.get(field, "")
+        if not cell:
+            numbers_[field] = default
+            continue
+        try:
+            number = parse(cell)
+        except ValueParseError as e:
+            raise fail(field, str(e)) from None
+        if problem := check(number):
+            raise fail(field, f"{cell!r} reads as {number!r}; {problem}")
+        numbers_[field] = number
+
+    return StockItem(
+        ohms=ohms,
+        count=count,
+        tolerance=numbers_["tolerance"],
+        power_rating_w=numbers_["watts"],
+        max_volts=numbers_["max_volts"],
+        tcr_ppm=numbers_["tcr"],
+        max_temp_c=numbers_["max_temp"],
+        package=row.get("package", ""),
+        location=row.get("location", ""),
+        note=row.get("note", ""),
+        extra=tuple(extra),
+    )
+
+
+# --------------------------------------------------------------------------- writing
+
+
+def _plain(x: float) -> str:
+    """Positional decimal text of a float, without exponent or trailing zeros."""
+    return _plain_decimal(Decimal(repr(x)))
+
+
+def _plain_decimal(d: Decimal) -> str:
+    text = format(d, "f")
+    if "." in text:
+        text = text.rstrip("0").rstrip(".")
+    return text
+
+
+def _exact_text(x: float, shift: int, suffix: str, parse: Callable[[str], float]) -> str:
+    """The shortest decimal text t such that ``parse(t + suffix) == x`` exactly.
+
+    ``shift`` moves the decimal point of the stored number to the written one (2 for a
+    fraction written in %).  The last candidate is the exact shifted digits of ``repr(x)``,
+    which the parsers in ``values`` read back to the same float.
+    """
+    exact = Decimal(repr(x)).scaleb(shift)
+    candidates = [float(f"{exact:.{p}g}") for p in range(1, 18)]
+    for candidate in candidates:
+        text = _plain(candidate) + suffix
+        try:
+            if parse(text) == x:
+                return text
+        except ValueParseError:
+            continue
+    return _plain_decimal(exact) + suffix
+
+
+def _value_text(ohms: float) -> str:
+    code = values.to_code(ohms)  # documented to read back exactly; checked, as it is cheap
+    try:
+        if values.parse_resistance(code) == ohms:
+            return code
+    except ValueParseError:
+        pass
+    # The RKM code rounds this value: write every digit so the file reads back exactly.
+    return _exact_text(ohms, 0, "", values.parse_resistance)
+
+
+def _row(item: StockItem, columns: Iterable[str], extra_names: list[str]) -> list[str]:
+    own = {
+        "value": _value_text(item.ohms),
+        "qty": "" if item.count is None else str(item.count),
+        "tolerance": _exact_text(item.tolerance, 2, "%", values.parse_tolerance),
+        "watts": _exact_text(item.power_rating_w, 0, "", values.parse_power),
+        "max_volts": _exact_text(item.max_volts, 0, "", values.parse_voltage),
+        "tcr": _exact_text(item.tcr_ppm, 0, "", values.parse_tcr),
+        "max_temp": _exact_text(item.max_temp_c, 0, "", _parse_temp_c),
+        "package": item.package,
+        "location": item.location,
+        "note": item.note,
+    }
+    extra = dict(item.extra)
+    return [*(own[column] for column in columns), *(extra.get(name, "") for name in extra_names)]
+
+
+def _columns(stock: StockBin) -> tuple[str, ...]:
+    """:data:`COLUMNS`, without ``max_temp`` when every line has the default (blank reads so)."""
+    if any(item.max_temp_c != DEFAULT_MAX_TEMP_C for item in stock.items):
+        return COLUMNS
+    return tuple(column for column in COLUMNS if column != "max_temp")
+
+
+def save_bin(stock: StockBin, path: str | os.PathLike) -> None:
+    """Write `stock` as a bin file that :func:`load_bin` reads back equal (apart from the name).
+
+    The file is written to a temporary file in the same folder, flushed to disk with fsync,
+    and moved over `path` with ``os.replace``, so a crash or error leaves either the old file
+    or the new one, never half of one.  An existing file's permission bits are kept.
+
+    Parameters
+    ----------
+    stock : StockBin
+        The bin.  Values are written as RKM codes (``values.to_code``), or with every digit
+        where the code would round; the ratings are written even when they are the defaults,
+        except ``max_temp``, written only when some line differs from 155 °C.
+    path : str or os.PathLike
+        The file to create or replace.
+
+    Raises
+    ------
+    StockError
+        If the file cannot be written (the old file, if any, is left as it was).
+    """
+    name = os.fsdecode(os.fspath(path))
+    extra_names: dict[str, None] = {}
+    for item in stock.items:
+        extra_names.update(dict.fromkeys(n for n, _ in item.extra))
+    buffer = io.StringIO(newline="")
+    writer = csv.writer(buffer, lineterminator="\n")
+    columns = _columns(stock)
+    writer.writerow([*columns, *extra_names])
+    for item in stock.items:
+        writer.writerow(_row(item, columns, list(extra_names)))
+    data = buffer.getvalue().encode("utf-8")
+
+    folder, base = os.path.split(os.path.abspath(name))
+    try:
+        mode = stat.S_IMODE(os.stat(name).st_mode)
+    except FileNotFoundError:
+        mode = None
+    except OSError as e:
+        raise StockError(f"cannot write {name!r}: {e.strerror or e}") from None
+    tmp = None
+    try:
+        while tmp is None:
+            candidate = os.path.join(folder, f".{base}.{secrets.token_hex(4)}.tmp")
+            try:
+                fd = os.open(candidate, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o666)
+            except FileExistsError:
+                continue
+            tmp = candidate
+        with os.fdopen(fd, "wb") as f:
+            f.write(data)
+            f.flush()
+            os.fsync(f.fileno())
+        if mode is not None:
+            os.chmod(tmp, mode)
+        os.replace(tmp, name)
+        tmp = None
+    except OSError as e:
+        raise StockError(f"cannot write {name!r}: {e.strerror or e}; check that the folder "
+                         "exists and is writable (the old file, if any, is unchanged)") from None
+    finally:
+        if tmp is not None:
+            try:
+                os.unlink(tmp)
+            except OSError:
+                pass  # best effort: the original error is the one to report
+    _sync_folder(folder)
+
+
+def _sync_folder(folder: str) -> None:
+    """fsync the folder so the rename itself survives a power cut (POSIX; skipped elsewhere)."""
+    try:
+        fd = os.open(folder, os.O_RDONLY)
+    except OSError:
+        return
+    try:
+        os.fsync(fd)
+    except OSError:
+        pass  # some file systems refuse fsync on a folder; the data itself is already synced
+    finally:
+        os.close(fd)
