@@ -31,6 +31,7 @@ from netsynth.stock import StockBin, default_bin, kit_bin, load_bin
 from netsynth.values import (
     format_ohms,
     parse_current,
+    parse_duty,
     parse_power,
     parse_range,
     parse_ratio,
@@ -129,7 +130,7 @@ def _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains):
         volts=parse_voltage(volts) if volts is not None else None,
         amps=parse_current(amps) if amps is not None else None,
         watts=parse_power(watts) if watts is not None else None,
-        duty=parse_ratio(duty) if duty is not None else 1.0,
+        duty=parse_duty(duty) if duty is not None else 1.0,
         ambient_c=ambient,
         mains=mains,
     )

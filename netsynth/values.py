@@ -393,6 +393,24 @@ def parse_current(text: str) -> float:
     return _parse_quantity(text, _CURRENT_RE, "a current", "2A, 1.5 A or 150mA")
 
 
+def parse_duty(text: str) -> float:
+    """Read a duty cycle as a fraction: ``10%``, ``100 %``, ``0.25``; above 0 and at most 1.
+
+    Examples
+    --------
+    >>> parse_duty('10%'), parse_duty('0.25'), parse_duty('100%')
+    (0.1, 0.25, 1.0)
+    """
+    s = text.strip()
+    m = re.fullmatch(rf"{_NUM}\s*(?P<pct>%)?", s)
+    if not m:
+        raise _fail(s, "expected a duty cycle such as 10% or 0.1")
+    value = float(Fraction(m["num"]) / (100 if m["pct"] else 1))
+    if not 0 < value <= 1:
+        raise _fail(s, "a duty cycle is above 0 and at most 100 %")
+    return value
+
+
 _TCR_RE = re.compile(rf"{_SIGN}{_NUM}\s*(?P<unit>(?i:ppm)(?:\s*/\s*(?:K|°C|℃|C))?)?")
 
 

@@ -12,6 +12,8 @@ from netsynth.errors import ValueParseError
 from netsynth.values import (
     format_error,
     format_ohms,
+    parse_current,
+    parse_duty,
     parse_power,
     parse_range,
     parse_ratio,
@@ -338,3 +340,30 @@ def test_parse_range_rejects(text, fragment):
 )
 def test_format_error(rel, text):
     assert format_error(rel) == text
+
+
+@pytest.mark.parametrize(
+    "text, amps",
+    [
+        ("2", 2.0),  # bare number: amperes
+        ("2A", 2.0),
+        ("1.5 A", 1.5),
+        ("150mA", 0.15),  # SI prefix milli (BIPM SI Brochure, from memory)
+    ],
+)
+def test_parse_current(text, amps):
+    assert parse_current(text) == pytest.approx(amps)
+
+
+@pytest.mark.parametrize(
+    "text, fraction",
+    [("10%", 0.1), ("100 %", 1.0), ("0.25", 0.25), ("2.5%", 0.025)],  # percent means hundredths
+)
+def test_parse_duty(text, fraction):
+    assert parse_duty(text) == pytest.approx(fraction)
+
+
+@pytest.mark.parametrize("text", ["0", "150%", "-5%", "half", "1.5"])
+def test_parse_duty_rejects(text):
+    with pytest.raises(ValueParseError, match="duty cycle"):
+        parse_duty(text)

@@ -85,7 +85,7 @@ def review(
         stress=stress,
         point=point,
         cautions=_cautions(stress, point),
-        notes=_notes(value, target, band),
+        notes=_notes(value, target_ohms, band) if target_ohms is not None else (),
         not_in_bin=missing,
     )
 
@@ -97,8 +97,14 @@ def _cautions(stress: NetworkStress | None, point: OperatingPoint | None) -> tup
     over = stress.violations
     if over:
         out.append(f"{len(over)} part(s) over a derated limit: this network will overheat or break down as built")
-    elif any(max(p.power_use, p.voltage_use) > NEAR_LIMIT for p in stress.parts):
-        out.append(f"a part runs above {NEAR_LIMIT:.0%} of its derated limit: it will run hot")
+    else:
+        if any(p.power_use > NEAR_LIMIT for p in stress.parts):
+            out.append(f"a part uses more than {NEAR_LIMIT:.0%} of its derated power limit: it will run hot")
+        if any(p.voltage_use > NEAR_LIMIT for p in stress.parts):
+            out.append(
+                f"a part sees more than {NEAR_LIMIT:.0%} of its derated voltage limit: tolerance shifts the share "
+                "between parts, so little margin is left for surges"
+            )
     highest = max([stress.volts] + [p.volts for p in stress.parts])
     if highest > CAUTION_VOLTS:
         out.append(f"{highest:.4g} V is present: a shock hazard; keep clearances and discharge before touching")
@@ -114,8 +120,10 @@ def _notes(value: float, target: float, band: ToleranceBand) -> tuple[str, ...]:
     half = max(-low, high)
     error = abs(value / target - 1)
     if half > 0 and error < FAR_BELOW * half:
-        return (
-            f"the value error ({error * 1e6:.3g} ppm) is far below the parts' tolerance band (±{half * 100:.3g} %): "
-            "the built network will land anywhere in that band; measure it and trim, or pick tighter parts",
-        )
+        band_text = f"the parts' tolerance band (±{half * 100:.3g} %)"
+        if error < 1e-12:
+            lead = f"the nominal value is exact, but {band_text} is what the build will show"
+        else:
+            lead = f"the value error ({error * 1e6:.3g} ppm) is far below {band_text}"
+        return (f"{lead}: the built network lands anywhere in that band; measure it and trim, or pick tighter parts",)
     return ()

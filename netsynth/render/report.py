@@ -15,12 +15,16 @@ from netsynth.values import format_error, format_ohms, to_code
 DRAW_PARTS = 12
 
 
+#: errors smaller than this are float noise of an exact hit (a few ulps), shown as 0
+EXACT = 1e-12
+
+
 def _ppm(error: float) -> str:
-    return "0" if error == 0 else f"{error * 1e6:+.1f}"
+    return "0" if abs(error) < EXACT else f"{error * 1e6:+.1f}"
 
 
 def _pct(error: float) -> str:
-    return "0" if error == 0 else f"{error * 100:+.4f}"
+    return "0" if abs(error) < EXACT else f"{error * 100:+.4f}"
 
 
 def _headroom(h: float) -> str:
@@ -76,8 +80,9 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
     if any(is_compacted(c.network) for c in shown):
         out.append(f"({LEGEND})")
     b = d.best
-    off = "exact" if b.error == 0 else format_error(b.error)
-    out += ["", f"Recommended ({d.prefer} first): {b.expression}  =  {format_ohms(b.value_ohms, 6)}  ({off})", ""]
+    off = "exact" if abs(b.error) < EXACT else format_error(b.error)
+    shown_as = compact(b.network) if b.parts > DRAW_PARTS else b.expression
+    out += ["", f"Recommended ({d.prefer} first): {shown_as}  =  {format_ohms(b.value_ohms, 6)}  ({off})", ""]
     out.append(_drawing(b))
     out.append("")
     picks = ", ".join(f"{p.count} × {to_code(p.ohms)}" + (f" ({p.location})" if p.location else "") for p in d.pick_list)
@@ -134,13 +139,17 @@ def review_lines(r: Review) -> list[str]:
             "",
             f"At {r.point.describe()}: {s.volts:.4g} V, {s.amps:.4g} A, {s.watts:.4g} W in the network",
         ]
-        rows = [("#", "part", "volts", "amps", "watts", "limit W", "limit V", "headroom", "")]
-        for i, p in enumerate(s.parts, start=1):
-            rows.append((
-                str(i), to_code(p.ohms), f"{p.volts:.4g}", f"{p.amps:.4g}", f"{p.watts:.4g}",
+        rows = [("parts", "value", "volts", "amps", "watts", "limit W", "limit V", "headroom", "")]
+        # parts under identical stress (as printed) share one row
+        groups: dict[tuple[str, ...], int] = {}
+        for p in s.parts:
+            cells = (
+                to_code(p.ohms), f"{p.volts:.4g}", f"{p.amps:.4g}", f"{p.watts:.4g}",
                 f"{p.limit_watts:.4g}", f"{p.limit_volts:.4g}", _headroom(p.headroom),
                 "OVER LIMIT" if not p.ok else "",
-            ))
+            )
+            groups[cells] = groups.get(cells, 0) + 1
+        rows += [(f"{n} ×",) + cells for cells, n in groups.items()]
         out += table(rows, "rlrrrrrrl")
     for c in r.cautions:
         out.append(f"Caution: {c}")

@@ -43,6 +43,10 @@ EXACT_PARTS_WITH_STRESS = 4
 STRESS_CANDIDATES = 60
 #: the array search never goes beyond this many parts
 MAX_ARRAY_PARTS = 400
+#: errors closer than this are the same (float noise of equal values, a few ulps)
+SAME_ERROR = 1e-12
+#: a larger network with no better error is listed only if its headroom is this many times larger
+HEADROOM_STEP = 1.25
 #: "close enough" for --prefer parts/headroom when no --within is given (common practice, no source)
 DEFAULT_ACCEPT = 0.01
 
@@ -148,22 +152,31 @@ def _constrained(target, stock, max_parts, within, alternatives, on_progress, po
         on_progress(f"searching regular arrays of {bound.count} to {limit} parts")
     for design in search_arrays(target, stock, point, derating, limit, within):
         n = design.found.parts
+        if n < bound.count:
+            continue  # far from the target: it passes only by drawing less power than the target would
         if n not in by_count or abs(design.found.error) < abs(by_count[n].best.error):
             by_count[n] = FrontierRow(n, design.found, (), proven=False, method=design.family, headroom=design.headroom)
-    rows = []
+    rows: list[FrontierRow] = []
     for n in sorted(by_count):
         row = by_count[n]
-        if rows and abs(row.best.error) >= abs(rows[-1].best.error):
-            continue  # no better than fewer parts
+        if any(_dominates(kept, row) for kept in rows):
+            continue  # fewer parts do as well
         rows.append(row)
         if within is not None and abs(row.best.error) <= within:
             break
     if not rows:
         raise InfeasibleError(
             f"no network of {bound.count} to {limit} parts keeps every part within its derated limits "
-            f"({bound.explain()}); raise --max-parts, use higher-rated parts, or relax --derate"
+            f"({bound.explain()}; the array search uses at most two values, so stock counts can limit it); "
+            "raise --max-parts, use higher-rated parts, or relax --derate"
         )
     return Frontier(tuple(rows), bound)
+
+
+def _dominates(fewer: FrontierRow, more: FrontierRow) -> bool:
+    """A row with fewer parts makes a larger one pointless: no worse error, and no clear headroom gain."""
+    no_worse = abs(fewer.best.error) <= abs(more.best.error) + SAME_ERROR
+    return no_worse and (more.headroom or 0.0) < HEADROOM_STEP * (fewer.headroom or 0.0)
 
 
 def _check_within(rows, within, max_parts) -> None:
@@ -195,7 +208,9 @@ def pick(rows: tuple[FrontierRow, ...], prefer: Preference = "error", within: fl
         return min(inside, key=lambda r: (r.parts, abs(r.best.error)))
     if prefer == "headroom" and inside:
         return max(inside, key=lambda r: (r.headroom or 0.0, -abs(r.best.error), -r.parts))
-    return min(rows, key=lambda r: (abs(r.best.error), r.parts, -(r.headroom or 0.0)))
+    least = min(abs(r.best.error) for r in rows)
+    tied = [r for r in rows if abs(r.best.error) <= least + SAME_ERROR]
+    return min(tied, key=lambda r: (r.parts, -(r.headroom or 0.0)))
 
 
 def _say(on_progress, n: int) -> None:
