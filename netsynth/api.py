@@ -96,6 +96,7 @@ def make(
         derating=derating,
         prefer=prefer,
         bound=found.bound,
+        value_parts=found.value_parts,
         seconds=seconds,
     )
 

@@ -66,4 +66,5 @@ class Design:
     derating: Derating
     prefer: str
     bound: PartBound | None  #: lower bound on the part count at the operating point
+    value_parts: int  #: the fewest parts that can reach the target from the bin's values
     seconds: float

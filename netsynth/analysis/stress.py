@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 
 from netsynth.analysis.conditions import Derating, OperatingPoint, limit_volts, limit_watts
 from netsynth.network import Network, parts_in_order, to_netlist
@@ -73,13 +74,33 @@ class NetworkStress:
         return tuple(i for i, p in enumerate(self.parts) if not p.ok)
 
 
-def rating_item(stock: StockBin | None, ohms: float) -> tuple[StockItem, bool]:
-    """The bin line a part of ``ohms`` comes from (highest power rating first), or defaults."""
-    if stock is not None:
-        same = [i for i in stock.items if abs(i.ohms - ohms) <= 1e-12 * ohms]
-        if same:
-            return max(same, key=lambda i: (i.power_rating_w, i.max_volts)), True
-    return StockItem(ohms), False
+def rating_items(stock: StockBin | None, ohms: list[float]) -> list[tuple[StockItem, bool]]:
+    """For each value, the bin line it comes from (highest power rating first) and whether the bin
+    holds it; values the bin lacks get the bin defaults."""
+    lines = _best_lines(stock) if stock is not None else {}
+    out = []
+    for r in ohms:
+        item = lines.get(_key(r))
+        out.append((item, True) if item is not None else (_default_item(r), False))
+    return out
+
+
+def _key(ohms: float) -> float:
+    return float(f"{ohms:.12g}")  # equal values up to float noise share a key
+
+
+def _best_lines(stock: StockBin) -> dict[float, StockItem]:
+    best: dict[float, StockItem] = {}
+    for item in stock.items:
+        k = _key(item.ohms)
+        if k not in best or (item.power_rating_w, item.max_volts) > (best[k].power_rating_w, best[k].max_volts):
+            best[k] = item
+    return best
+
+
+@lru_cache(maxsize=1024)
+def _default_item(ohms: float) -> StockItem:
+    return StockItem(ohms)
 
 
 def network_stress(
@@ -105,9 +126,9 @@ def network_stress(
     unit = solve_network(edges, nodes, volts=1.0)
     volts = point.volts_across(unit.resistance_ohms)
     stresses = []
-    for part, v1, a1, w1 in zip(parts, unit.edge_volts, unit.edge_amps, unit.edge_watts):
+    items = rating_items(stock, [p.ohms for p in parts])
+    for part, (item, in_bin), v1, a1, w1 in zip(parts, items, unit.edge_volts, unit.edge_amps, unit.edge_watts):
         v, a, w = v1 * volts, a1 * volts, w1 * volts * volts
-        item, in_bin = rating_item(stock, part.ohms)
         stresses.append(
             PartStress(
                 ohms=part.ohms,

@@ -17,6 +17,7 @@ The contract (stable; later work adds keys, never removes these)::
       "pick_list": [{"ohms": float, "count": int, "location": str}],
       "operating_point": {...} | null, "derating": {...}, "prefer": str,
       "lower_bound": {"count", "by_power", "by_voltage", "text"} | null,
+      "value_parts": int,      # the fewest parts that can reach the target from the bin's values
       "review": {review of "best", below},
       "status": "ok" | "over_limit",
       "verification": {"method": str, "rtol": float},
@@ -135,6 +136,7 @@ def design_dict(d: Design) -> dict[str, Any]:
         "prefer": d.prefer,
         "lower_bound": None if b is None
         else {"count": b.count, "by_power": b.by_power, "by_voltage": b.by_voltage, "text": b.explain()},
+        "value_parts": d.value_parts,
         "review": review_dict(d.review),
         "status": "ok" if d.review.ok else "over_limit",
         "verification": VERIFICATION,

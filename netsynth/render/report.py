@@ -60,6 +60,8 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
         )
     if d.bound is not None:
         out.append(f"Lower bound: {d.bound.explain()}")
+    if d.value_parts > 1:
+        out.append(f"Reaching the target takes at least {d.value_parts} parts from this bin's values")
     out.append("")
     stressed = d.point is not None
     head = ("parts", "network", "value", "error %", "ppm") + (("headroom",) if stressed else ()) + ("proof",)

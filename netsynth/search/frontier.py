@@ -37,8 +37,12 @@ PREFERENCES: tuple[str, ...] = get_args(Preference)
 
 #: default part count for the exhaustive search without an operating point
 DEFAULT_MAX_PARTS = 4
+#: the exhaustive search covers at most this many parts (larger counts: regular arrays)
+EXACT_PARTS = 5
 #: with an operating point, the exhaustive search covers at most this many parts
 EXACT_PARTS_WITH_STRESS = 4
+#: arrays searched without an operating point are screened at this drive, i.e. not at all
+NEGLIGIBLE_DRIVE = OperatingPoint(volts=1e-12)
 #: candidates per part count screened for stress before a row is called "best found"
 STRESS_CANDIDATES = 60
 #: the array search never goes beyond this many parts
@@ -66,12 +70,30 @@ class FrontierRow:
 @dataclass(frozen=True, slots=True)
 class Frontier:
     rows: tuple[FrontierRow, ...]
-    bound: PartBound | None  #: lower bound on the part count (with an operating point)
+    bound: PartBound | None  #: lower bound on the part count from power and voltage (with an operating point)
+    value_parts: int = 1  #: the fewest parts that can reach the target from this bin's values
 
 
 def default_part_limit(bound: int) -> int:
     """How far the search goes without --max-parts: twice the bound plus slack (common practice, no source)."""
     return min(MAX_ARRAY_PARTS, max(DEFAULT_MAX_PARTS, 2 * bound + 8))
+
+
+def parts_for_value(target_ohms: float, stock: StockBin) -> int:
+    """The fewest parts that can reach the target at all: below the smallest value only
+    parallel parts help (n parts of R give R/n at best), above the largest only series ones."""
+    low, high = min(stock.values), max(stock.values)
+    if target_ohms < low:
+        return math.ceil(low / target_ohms * (1 - 1e-12))
+    if target_ohms > high:
+        return math.ceil(target_ohms / high * (1 - 1e-12))
+    return 1
+
+
+def _value_text(target_ohms: float, stock: StockBin, n: int) -> str:
+    side = f"the smallest value, {min(stock.values):g} Ω, in parallel" if target_ohms < min(stock.values) \
+        else f"the largest value, {max(stock.values):g} Ω, in series"
+    return f"reaching {target_ohms:g} Ω takes at least {n} parts ({side})"
 
 
 def search_frontier(
@@ -86,6 +108,8 @@ def search_frontier(
 ) -> Frontier:
     """Best acceptable network for each part count.
 
+    ``max_parts`` None means 4 without an operating point, or as far as the physics
+    (power, voltage and the target's distance from the bin's values) needs.
     With ``within`` (a fraction, e.g. 0.001 for ±0.1 %), the search stops at the
     first part count whose best network lands within it.
 
@@ -100,44 +124,65 @@ def search_frontier(
         raise InfeasibleError(f"--max-parts {max_parts}: at least one part is needed")
     if within is not None and not within >= 0:
         raise InfeasibleError(f"accuracy {within!r}: must be zero or more")
-    if point is None:
-        rows = _unconstrained(target_ohms, stock, max_parts or DEFAULT_MAX_PARTS, within, alternatives, on_progress)
-        frontier = Frontier(tuple(rows), None)
+    needed = parts_for_value(target_ohms, stock)
+    bound = part_lower_bound(target_ohms, stock, point, derating) if point is not None else None
+    floor = max(needed, bound.count if bound else 1)
+    if max_parts is not None and max_parts < floor:
+        why = bound.explain() if bound and bound.count >= needed else _value_text(target_ohms, stock, needed)
+        raise InfeasibleError(f"--max-parts {max_parts} is too small: {why}")
+    if floor > MAX_ARRAY_PARTS:
+        why = bound.explain() if bound and bound.count >= needed else _value_text(target_ohms, stock, needed)
+        raise InfeasibleError(f"{why}; netsynth searches up to {MAX_ARRAY_PARTS} parts: use other parts")
+    if max_parts is not None:
+        limit = max_parts
+    elif point is None and needed <= DEFAULT_MAX_PARTS:
+        limit = DEFAULT_MAX_PARTS
     else:
-        frontier = _constrained(target_ohms, stock, max_parts, within, alternatives, on_progress, point, derating)
-    _check_within(frontier.rows, within, max_parts)
-    return frontier
+        limit = default_part_limit(floor)
+    exact_k = min(limit, EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS)
+    rows = _exact_rows(target_ohms, stock, max(floor, 1), exact_k, within, alternatives, on_progress, point, derating)
+    reached = rows and within is not None and abs(rows[-1].best.error) <= within
+    if limit > exact_k and not reached:
+        if on_progress:
+            on_progress(f"searching regular arrays of up to {limit} parts")
+        screen = point if point is not None else NEGLIGIBLE_DRIVE
+        for design in search_arrays(target_ohms, stock, screen, derating, limit, within):
+            n = design.found.parts
+            if n <= exact_k or n < floor:
+                continue  # covered exhaustively, or too few parts to be near the target at this drive
+            headroom = design.headroom if point is not None else None
+            rows.append(FrontierRow(n, design.found, (), proven=False, method=design.family, headroom=headroom))
+    if point is not None or limit > exact_k:
+        rows = _pareto(rows)
+    if within is not None:
+        for i, row in enumerate(rows):
+            if abs(row.best.error) <= within:
+                rows = rows[: i + 1]
+                break
+    if not rows:
+        stress = f" keeps every part within its derated limits ({bound.explain()}; the array search uses at most " \
+            "two values, so stock counts can limit it)" if bound else ""
+        raise InfeasibleError(
+            f"no network of {floor} to {limit} parts{stress}; raise --max-parts"
+            + (", use higher-rated parts, or relax --derate" if bound else "")
+        )
+    _check_within(rows, within, max_parts)
+    return Frontier(tuple(rows), bound, needed)
 
 
-def _unconstrained(target, stock, k, within, alternatives, on_progress) -> list[FrontierRow]:
+def _exact_rows(target, stock, first, k, within, alternatives, on_progress, point, derating) -> list[FrontierRow]:
+    """Exhaustive rows for first..k parts; with an operating point, screened for stress."""
+    if first > k:
+        return []
     engine = ExactSearch(stock.values, stock.counts, k)
     rows: list[FrontierRow] = []
-    for n in range(1, k + 1):
+    for n in range(first, k + 1):
         _say(on_progress, n)
-        found = engine.best(n, target, alternatives)
-        if not found:
-            continue  # the bin holds fewer than n parts
-        rows.append(FrontierRow(n, found[0], tuple(found[1:]), proven=True, method="exhaustive"))
-        if within is not None and abs(found[0].error) <= within:
-            break
-    if not rows:
-        raise InfeasibleError("the bin cannot make any network")
-    return rows
-
-
-def _constrained(target, stock, max_parts, within, alternatives, on_progress, point, derating) -> Frontier:
-    bound = part_lower_bound(target, stock, point, derating)
-    if max_parts is not None and max_parts < bound.count:
-        raise InfeasibleError(f"--max-parts {max_parts} is too small: {bound.explain()}")
-    if bound.count > MAX_ARRAY_PARTS:
-        raise InfeasibleError(f"{bound.explain()}; netsynth searches up to {MAX_ARRAY_PARTS} parts: use higher-rated parts")
-    limit = max_parts if max_parts is not None else default_part_limit(bound.count)
-    by_count: dict[int, FrontierRow] = {}
-    exact_k = min(limit, EXACT_PARTS_WITH_STRESS)
-    if bound.count <= exact_k:
-        engine = ExactSearch(stock.values, stock.counts, exact_k)
-        for n in range(bound.count, exact_k + 1):
-            _say(on_progress, n)
+        if point is None:
+            found = engine.best(n, target, alternatives)
+            if found:
+                rows.append(FrontierRow(n, found[0], tuple(found[1:]), proven=True, method="exhaustive"))
+        else:
             found = engine.best(n, target, max(STRESS_CANDIDATES, alternatives))
             passing = []
             for i, f in enumerate(found):
@@ -145,38 +190,29 @@ def _constrained(target, stock, max_parts, within, alternatives, on_progress, po
                 if not stress.violations:
                     passing.append((i, f, stress.headroom))
             if passing:
-                first, best, headroom = passing[0]
+                first_ok, best, headroom = passing[0]
                 alts = tuple(f for _, f, _ in passing[1 : alternatives + 1])
-                by_count[n] = FrontierRow(n, best, alts, proven=first == 0, method="exhaustive", headroom=headroom)
-    if on_progress:
-        on_progress(f"searching regular arrays of {bound.count} to {limit} parts")
-    for design in search_arrays(target, stock, point, derating, limit, within):
-        n = design.found.parts
-        if n < bound.count:
-            continue  # far from the target: it passes only by drawing less power than the target would
-        if n not in by_count or abs(design.found.error) < abs(by_count[n].best.error):
-            by_count[n] = FrontierRow(n, design.found, (), proven=False, method=design.family, headroom=design.headroom)
-    rows: list[FrontierRow] = []
-    for n in sorted(by_count):
-        row = by_count[n]
-        if any(_dominates(kept, row) for kept in rows):
-            continue  # fewer parts do as well
-        rows.append(row)
-        if within is not None and abs(row.best.error) <= within:
+                rows.append(FrontierRow(n, best, alts, proven=first_ok == 0, method="exhaustive", headroom=headroom))
+        if rows and rows[-1].parts == n and within is not None and abs(rows[-1].best.error) <= within:
             break
-    if not rows:
-        raise InfeasibleError(
-            f"no network of {bound.count} to {limit} parts keeps every part within its derated limits "
-            f"({bound.explain()}; the array search uses at most two values, so stock counts can limit it); "
-            "raise --max-parts, use higher-rated parts, or relax --derate"
-        )
-    return Frontier(tuple(rows), bound)
+    return rows
+
+
+def _pareto(rows: list[FrontierRow]) -> list[FrontierRow]:
+    """Drop each row that a row with fewer parts makes pointless (see :func:`_dominates`)."""
+    kept: list[FrontierRow] = []
+    for row in sorted(rows, key=lambda r: r.parts):
+        if not any(_dominates(k, row) for k in kept):
+            kept.append(row)
+    return kept
 
 
 def _dominates(fewer: FrontierRow, more: FrontierRow) -> bool:
     """A row with fewer parts makes a larger one pointless: no worse error, and no clear headroom gain."""
     no_worse = abs(fewer.best.error) <= abs(more.best.error) + SAME_ERROR
-    return no_worse and (more.headroom or 0.0) < HEADROOM_STEP * (fewer.headroom or 0.0)
+    if fewer.headroom is None or more.headroom is None:
+        return no_worse
+    return no_worse and more.headroom < HEADROOM_STEP * fewer.headroom
 
 
 def _check_within(rows, within, max_parts) -> None:
