@@ -97,6 +97,7 @@ def make(
         prefer=prefer,
         bound=found.bound,
         value_parts=found.value_parts,
+        part_limit=found.limit,
         seconds=seconds,
     )
 

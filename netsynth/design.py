@@ -67,4 +67,5 @@ class Design:
     prefer: str
     bound: PartBound | None  #: lower bound on the part count at the operating point
     value_parts: int  #: the fewest parts that can reach the target from the bin's values
+    part_limit: int  #: the largest part count searched
     seconds: float

@@ -20,11 +20,17 @@ EXACT = 1e-12
 
 
 def _ppm(error: float) -> str:
-    return "0" if abs(error) < EXACT else f"{error * 1e6:+.1f}"
+    if abs(error) < EXACT:
+        return "0"
+    ppm = error * 1e6
+    return f"{ppm:+.1f}" if abs(ppm) >= 0.1 else f"{ppm:+.2g}"
 
 
 def _pct(error: float) -> str:
-    return "0" if abs(error) < EXACT else f"{error * 100:+.4f}"
+    if abs(error) < EXACT:
+        return "0"
+    pct = error * 100
+    return f"{pct:+.4f}" if abs(pct) >= 1e-4 else f"{pct:+.2g}"
 
 
 def _headroom(h: float) -> str:
@@ -49,7 +55,7 @@ def _proof(entry) -> str:
 
 def design_text(d: Design, show_alternatives: bool = False) -> str:
     """The frontier table, the recommended network drawn, its pick list, checks and cautions."""
-    limit = f"up to {d.max_parts} parts" if d.max_parts else "parts as needed"
+    limit = f"up to {d.part_limit} parts" + ("" if d.max_parts else " (as needed)" if d.point or d.value_parts > 1 else "")
     out = [f"Target {format_ohms(d.target_ohms, 6)}   bin: {d.bin_name}   {limit}"]
     if d.within is not None:
         out[0] += f"   within ±{format_error(d.within).lstrip('+')}"

@@ -72,6 +72,7 @@ class Frontier:
     rows: tuple[FrontierRow, ...]
     bound: PartBound | None  #: lower bound on the part count from power and voltage (with an operating point)
     value_parts: int = 1  #: the fewest parts that can reach the target from this bin's values
+    limit: int = DEFAULT_MAX_PARTS  #: the largest part count searched
 
 
 def default_part_limit(bound: int) -> int:
@@ -167,7 +168,7 @@ def search_frontier(
             + (", use higher-rated parts, or relax --derate" if bound else "")
         )
     _check_within(rows, within, max_parts)
-    return Frontier(tuple(rows), bound, needed)
+    return Frontier(tuple(rows), bound, needed, limit)
 
 
 def _exact_rows(target, stock, first, k, within, alternatives, on_progress, point, derating) -> list[FrontierRow]:
