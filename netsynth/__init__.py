@@ -7,7 +7,9 @@ The public API; the command line (``netsynth``) is a thin shell over it.
 0.0
 """
 
-from netsynth.api import make
+from netsynth.analysis.conditions import Derating, OperatingPoint
+from netsynth.analysis.review import Review, review
+from netsynth.api import check, make
 from netsynth.design import Candidate, Design, FrontierEntry, PickLine
 from netsynth.errors import (
     InfeasibleError,
@@ -22,7 +24,7 @@ from netsynth.stock import StockBin, StockItem, default_bin, kit_bin, load_bin, 
 from netsynth.values import format_ohms, parse_resistance, to_code
 
 __all__ = sorted([
-    "Candidate", "Design", "Edge", "FrontierEntry", "InfeasibleError", "NetsynthError", "Parallel", "Part",
+    "Candidate", "Derating", "Design", "OperatingPoint", "Review", "check", "review", "Edge", "FrontierEntry", "InfeasibleError", "NetsynthError", "Parallel", "Part",
     "PickLine", "Series", "StockBin", "StockError", "StockItem", "ValueParseError", "VerificationError",
     "default_bin", "equivalent_resistance", "format_ohms", "from_text", "kit_bin", "load_bin", "make",
     "parallel", "parse_resistance", "resistance", "save_bin", "series", "solve_network", "to_code",

@@ -210,3 +210,29 @@ def test_bad_operating_input_is_one_line(runner, args, fragment):
     result = run(runner, *args)
     assert result.exit_code != 0
     assert fragment in result.output
+
+
+def test_far_target_reaches_for_as_many_parts_as_its_value_needs(runner):
+    result = run(runner, "make", "25m", "--json")
+    assert result.exit_code == 0, result.output
+    data = json.loads(result.stdout)
+    # the default bin's smallest value is 10 Ω: 25 mΩ needs 10 / 0.025 = 400 in parallel (hand arithmetic)
+    assert data["value_parts"] == 400
+    assert data["best"]["parts"] == 400 and abs(data["best"]["error"]) < 1e-12
+
+
+def test_too_few_parts_for_the_value_names_the_count(runner):
+    result = run(runner, "make", "25m", "-k", "100")
+    assert result.exit_code == 1
+    assert "--max-parts 100 is too small" in result.output and "at least 400 parts" in result.output
+
+
+def test_stress_screening_marks_rows_honestly(runner):
+    result = run(runner, "make", "3k37", "--volts", "24", "--json")
+    data = json.loads(result.stdout)
+    for row in data["frontier"]:
+        assert all(p["watts"] <= p["limit_watts"] * (1 + 1e-9) for p in row["stress"])
+    three = next(r for r in data["frontier"] if r["parts"] == 3)
+    # 10 + 360 + 3k hits 3370 Ω exactly, but its 3 kΩ part would take (24/3370)² × 3000 = 0.152 W > 0.125 W
+    # (Ohm's law; ¼ W × 50 %): the row is the best that passes, and not marked proven
+    assert three["expression"] != "10 + 360 + 3k" and three["proven"] is False

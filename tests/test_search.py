@@ -170,3 +170,29 @@ def test_frontier_says_when_accuracy_is_out_of_reach():
     stock = StockBin((StockItem(1000.0, count=1),), name="one part")
     with pytest.raises(InfeasibleError, match="raise --max-parts"):
         search_frontier(1234.0, stock, max_parts=3, within=0.001)
+
+
+def _row(parts, error, headroom):
+    from netsynth.network import Part
+    from netsynth.search.exact import Found
+    from netsynth.search.frontier import FrontierRow
+
+    return FrontierRow(parts, Found(Part(1.0), 1.0, error, parts), (), proven=False, method="x", headroom=headroom)
+
+
+PICK_CASES = [
+    # (prefer, within, expected parts) over rows (parts, error, headroom) below — the ranking rules of pick()
+    ("error", None, 9),  # smallest error wins
+    ("error", 0.001, 5),  # with --within: the fewest parts inside it
+    ("parts", None, 3),  # fewest parts within the default ±1 %
+    ("headroom", None, 5),  # most headroom within ±1 %
+    ("headroom", 1e-6, 9),  # nothing else within ±1 ppm: the smallest error
+]
+
+
+@pytest.mark.parametrize("prefer, within, parts", PICK_CASES)
+def test_pick_ranks_by_preference(prefer, within, parts):
+    from netsynth.search.frontier import pick
+
+    rows = (_row(1, 0.05, 1.0), _row(3, 0.004, 1.5), _row(5, 0.0005, 3.0), _row(9, 1e-7, 2.0))
+    assert pick(rows, prefer, within).parts == parts
