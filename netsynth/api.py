@@ -98,6 +98,7 @@ def make(
         bound=found.bound,
         value_parts=found.value_parts,
         part_limit=found.limit,
+        exhaustive_parts=found.exhaustive_parts,
         seconds=seconds,
     )
 

@@ -68,4 +68,5 @@ class Design:
     bound: PartBound | None  #: lower bound on the part count at the operating point
     value_parts: int  #: the fewest parts that can reach the target from the bin's values
     part_limit: int  #: the largest part count searched
+    exhaustive_parts: int  #: part counts up to this were searched exhaustively
     seconds: float

@@ -19,6 +19,7 @@ The contract (stable; later work adds keys, never removes these)::
       "lower_bound": {"count", "by_power", "by_voltage", "text"} | null,
       "value_parts": int,      # the fewest parts that can reach the target from the bin's values
       "part_limit": int,       # the largest part count searched
+      "exhaustive_parts": int, # counts up to this were searched exhaustively; above it, regular arrays
       "review": {review of "best", below},
       "status": "ok" | "over_limit",
       "verification": {"method": str, "rtol": float},
@@ -139,6 +140,7 @@ def design_dict(d: Design) -> dict[str, Any]:
         else {"count": b.count, "by_power": b.by_power, "by_voltage": b.by_voltage, "text": b.explain()},
         "value_parts": d.value_parts,
         "part_limit": d.part_limit,
+        "exhaustive_parts": d.exhaustive_parts,
         "review": review_dict(d.review),
         "status": "ok" if d.review.ok else "over_limit",
         "verification": VERIFICATION,

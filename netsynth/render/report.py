@@ -66,6 +66,13 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
         )
     if d.bound is not None:
         out.append(f"Lower bound: {d.bound.explain()}")
+    if d.exhaustive_parts < d.part_limit:
+        above = d.exhaustive_parts + 1
+        span = f"at {above}" if above == d.part_limit else f"from {above} to {d.part_limit}"
+        out.append(
+            f"Exhaustive search up to {d.exhaustive_parts} parts; {span} parts, regular arrays "
+            "(listed only where they improve on fewer parts)"
+        )
     if d.value_parts > 1:
         out.append(f"Reaching the target takes at least {d.value_parts} parts from this bin's values")
     out.append("")

@@ -37,8 +37,10 @@ PREFERENCES: tuple[str, ...] = get_args(Preference)
 
 #: default part count for the exhaustive search without an operating point
 DEFAULT_MAX_PARTS = 4
-#: the exhaustive search covers at most this many parts (larger counts: regular arrays)
+#: the exhaustive search always covers this many parts when asked (larger counts: regular arrays) ...
 EXACT_PARTS = 5
+#: ... and up to this many on bins small enough to finish quickly (see ExactSearch.lookups)
+EXACT_PARTS_MAX = 8
 #: with an operating point, the exhaustive search covers at most this many parts
 EXACT_PARTS_WITH_STRESS = 4
 #: arrays searched without an operating point are screened at this drive, i.e. not at all
@@ -73,6 +75,7 @@ class Frontier:
     bound: PartBound | None  #: lower bound on the part count from power and voltage (with an operating point)
     value_parts: int = 1  #: the fewest parts that can reach the target from this bin's values
     limit: int = DEFAULT_MAX_PARTS  #: the largest part count searched
+    exhaustive_parts: int = DEFAULT_MAX_PARTS  #: part counts up to this were searched exhaustively
 
 
 def default_part_limit(bound: int) -> int:
@@ -140,8 +143,8 @@ def search_frontier(
         limit = DEFAULT_MAX_PARTS
     else:
         limit = default_part_limit(floor)
-    exact_k = min(limit, EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS)
-    rows = _exact_rows(target_ohms, stock, max(floor, 1), exact_k, within, alternatives, on_progress, point, derating)
+    engine, exact_k = _exact_engine(stock, min(limit, EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS_MAX))
+    rows = _exact_rows(engine, target_ohms, stock, floor, exact_k, within, alternatives, on_progress, point, derating)
     reached = rows and within is not None and abs(rows[-1].best.error) <= within
     if limit > exact_k and not reached:
         if on_progress:
@@ -153,8 +156,11 @@ def search_frontier(
                 continue  # covered exhaustively, or too few parts to be near the target at this drive
             headroom = design.headroom if point is not None else None
             rows.append(FrontierRow(n, design.found, (), proven=False, method=design.family, headroom=headroom))
-    if point is not None or limit > exact_k:
+    if point is not None:
         rows = _pareto(rows)
+    else:  # every exhaustive row stays (one per part count); array rows only where they improve
+        exhaustive = [r for r in rows if r.parts <= exact_k]
+        rows = exhaustive + [r for r in _pareto(rows) if r.parts > exact_k]
     if within is not None:
         for i, row in enumerate(rows):
             if abs(row.best.error) <= within:
@@ -168,14 +174,24 @@ def search_frontier(
             + (", use higher-rated parts, or relax --derate" if bound else "")
         )
     _check_within(rows, within, max_parts)
-    return Frontier(tuple(rows), bound, needed, limit)
+    return Frontier(tuple(rows), bound, needed, limit, exact_k)
 
 
-def _exact_rows(target, stock, first, k, within, alternatives, on_progress, point, derating) -> list[FrontierRow]:
+def _exact_engine(stock: StockBin, k: int) -> tuple[ExactSearch, int]:
+    """The exhaustive engine for up to k parts, or for fewer when k would take too long on this bin."""
+    while True:
+        try:
+            return ExactSearch(stock.values, stock.counts, k), k
+        except InfeasibleError:
+            if k <= EXACT_PARTS:
+                raise
+            k = max(EXACT_PARTS, k - 1)
+
+
+def _exact_rows(engine, target, stock, first, k, within, alternatives, on_progress, point, derating) -> list[FrontierRow]:
     """Exhaustive rows for first..k parts; with an operating point, screened for stress."""
     if first > k:
         return []
-    engine = ExactSearch(stock.values, stock.counts, k)
     rows: list[FrontierRow] = []
     for n in range(first, k + 1):
         _say(on_progress, n)
