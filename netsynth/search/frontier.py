@@ -39,8 +39,10 @@ PREFERENCES: tuple[str, ...] = get_args(Preference)
 DEFAULT_MAX_PARTS = 4
 #: the exhaustive search always covers this many parts when asked (larger counts: regular arrays) ...
 EXACT_PARTS = 5
-#: ... and up to this many on bins small enough to finish quickly (see ExactSearch.lookups)
+#: ... and up to this many on small bins, as far as ExactSearch.lookups says it finishes quickly
 EXACT_PARTS_MAX = 8
+#: a bin with at most this many stock lines is "small"
+SMALL_BIN = 40
 #: with an operating point, the exhaustive search covers at most this many parts
 EXACT_PARTS_WITH_STRESS = 4
 #: arrays searched without an operating point are screened at this drive, i.e. not at all
@@ -143,8 +145,12 @@ def search_frontier(
         limit = DEFAULT_MAX_PARTS
     else:
         limit = default_part_limit(floor)
-    engine, exact_k = _exact_engine(stock, min(limit, EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS_MAX))
-    rows = _exact_rows(engine, target_ohms, stock, floor, exact_k, within, alternatives, on_progress, point, derating)
+    cap = EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS_MAX if len(stock) <= SMALL_BIN else EXACT_PARTS
+    exact_k = min(limit, cap)
+    rows: list[FrontierRow] = []
+    if floor <= exact_k:
+        engine, exact_k = _exact_engine(stock, exact_k)
+        rows = _exact_rows(engine, target_ohms, stock, floor, exact_k, within, alternatives, on_progress, point, derating)
     reached = rows and within is not None and abs(rows[-1].best.error) <= within
     if limit > exact_k and not reached:
         if on_progress:
@@ -190,8 +196,6 @@ def _exact_engine(stock: StockBin, k: int) -> tuple[ExactSearch, int]:
 
 def _exact_rows(engine, target, stock, first, k, within, alternatives, on_progress, point, derating) -> list[FrontierRow]:
     """Exhaustive rows for first..k parts; with an operating point, screened for stress."""
-    if first > k:
-        return []
     rows: list[FrontierRow] = []
     for n in range(first, k + 1):
         _say(on_progress, n)
