@@ -66,7 +66,9 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
         )
     if d.bound is not None:
         out.append(f"Lower bound: {d.bound.explain()}")
-    if d.exhaustive_parts < d.part_limit:
+    if d.exhaustive_parts == 0:
+        out.append(f"Search: regular arrays of up to {d.part_limit} parts (too many parts for the exhaustive search)")
+    elif d.exhaustive_parts < d.part_limit:
         above = d.exhaustive_parts + 1
         span = f"at {above}" if above == d.part_limit else f"from {above} to {d.part_limit}"
         out.append(

@@ -151,6 +151,8 @@ def search_frontier(
     if floor <= exact_k:
         engine, exact_k = _exact_engine(stock, exact_k)
         rows = _exact_rows(engine, target_ohms, stock, floor, exact_k, within, alternatives, on_progress, point, derating)
+    else:
+        exact_k = 0  # no network small enough for the exhaustive search can meet the target
     reached = rows and within is not None and abs(rows[-1].best.error) <= within
     if limit > exact_k and not reached:
         if on_progress:
