@@ -192,3 +192,9 @@ def test_note_when_error_is_far_below_the_tolerance_band():
     stock = StockBin((StockItem(1000.0, tolerance=0.05),))
     r = review(from_text("1k"), stock, target_ohms=1000.1)
     assert any("far below" in n for n in r.notes)
+
+
+def test_low_ohm_networks_get_a_wiring_note():
+    # common practice, no source: wiring resistance matters below about 1 Ω
+    assert any("Kelvin" in n for n in review(from_text("R47 || R47")).notes)
+    assert not any("Kelvin" in n for n in review(from_text("4k7")).notes)

@@ -87,7 +87,7 @@ def review(
         stress=stress,
         point=point,
         cautions=_cautions(stress, point),
-        notes=_notes(value, target_ohms, band) if target_ohms is not None else (),
+        notes=(_notes(value, target_ohms, band) if target_ohms is not None else ()) + _low_ohm_note(value),
         not_in_bin=missing,
     )
 
@@ -115,6 +115,20 @@ def _cautions(stress: NetworkStress | None, point: OperatingPoint | None) -> tup
     if out:
         out.append(SAFETY_NOTE[0].upper() + SAFETY_NOTE[1:])
     return tuple(out)
+
+
+#: Ω; below this, wiring adds a noticeable share (common practice, no source: a solder joint or a few
+#: centimetres of trace or lead are each in the milliohm range)
+LOW_OHMS = 1.0
+
+
+def _low_ohm_note(value: float) -> tuple[str, ...]:
+    if value >= LOW_OHMS:
+        return ()
+    return (
+        "below 1 Ω, leads, solder joints and traces add milliohms of their own: keep them short and equal, "
+        "and measure (and use the network) through separate sense connections (Kelvin, 4-wire)",
+    )
 
 
 def _notes(value: float, target: float, band: ToleranceBand) -> tuple[str, ...]:
