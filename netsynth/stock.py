@@ -22,9 +22,6 @@ import dataclasses
 import functools
 import math
 import numbers
-# Unused since the split, but kept: tests/test_stock.py patches ``stock.os`` (the os module
-# itself, shared with netsynth.binfile) to make save_bin's writes fail.
-import os  # noqa: F401
 import re
 from collections.abc import Iterable
 from dataclasses import dataclass

@@ -19,7 +19,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from netsynth import stock
+from netsynth import binfile, stock
 from netsynth.errors import StockError
 from netsynth.stock import (
     COLUMNS,
@@ -390,7 +390,7 @@ def test_atomic_save_failure_leaves_original(tmp_path: Path, monkeypatch, target
     def boom(*args, **kwargs):
         raise OSError(28, "No space left on device")
 
-    monkeypatch.setattr(stock.os, target, boom)
+    monkeypatch.setattr(binfile.os, target, boom)
     with pytest.raises(StockError, match="cannot write .*No space left on device"):
         save_bin(default_bin(), path)
     monkeypatch.undo()
