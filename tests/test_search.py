@@ -131,12 +131,12 @@ def test_search_equals_brute_force_on_small_bins(values, counts, target, k):
 @settings(max_examples=25, deadline=None)
 @given(
     values=st.lists(st.integers(1, 50).map(lambda x: x * 10), min_size=1, max_size=4, unique=True),
-    count_seed=st.lists(st.sampled_from([1, 2, None]), min_size=4, max_size=4),
+    count_choices=st.lists(st.sampled_from([1, 2, None]), min_size=4, max_size=4),
     target=st.integers(5, 3000),
 )
-def test_search_equals_brute_force_on_random_bins(values, count_seed, target):
+def test_search_equals_brute_force_on_random_bins(values, count_choices, target):
     # reference: the brute-force enumerator above
-    counts = count_seed[: len(values)]
+    counts = count_choices[: len(values)]
     k = 4
     search = ExactSearch([float(v) for v in values], counts, k)
     for n in range(1, k + 1):
