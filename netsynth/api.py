@@ -80,8 +80,9 @@ def make(
         for row in found.rows
     )
     chosen = pick(found.rows, prefer, within)
-    best = next(e.best for e in frontier if e.parts == chosen.parts)
-    verdict = review(best.network, stock, point, derating, target_ohms, spec, temp_c)
+    entry = next(e for e in frontier if e.parts == chosen.parts)
+    best = entry.best
+    verdict = review(best.network, stock, point, derating, target_ohms, spec, temp_c, stress=entry.stress)
     seconds = time.perf_counter() - start
     return Design(
         target_ohms=target_ohms,

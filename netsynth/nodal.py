@@ -73,7 +73,6 @@ from __future__ import annotations
 
 import math
 import numbers
-import operator
 from collections import deque
 from collections.abc import Sequence
 from dataclasses import dataclass

@@ -19,7 +19,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from netsynth import binfile, stock
+from netsynth import binfile
 from netsynth.errors import StockError
 from netsynth.stock import (
     COLUMNS,

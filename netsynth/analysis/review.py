@@ -58,11 +58,13 @@ def review(
     temp_c: float | None = None,
     samples: int = MC_SAMPLES,
     seed: int = 1,
+    stress: NetworkStress | None = None,
 ) -> Review:
     """Analyse ``net`` built from ``stock`` at ``point``.
 
     ``spec`` is the builder's acceptance band (fraction) around ``target_ohms``
     (the nominal value when no target is given) for the Monte Carlo yield.
+    ``stress``, when the caller already solved ``net`` at ``point``, is used as is.
     """
     parts = parts_in_order(net)
     items = rating_items(stock, [p.ohms for p in parts])
@@ -74,7 +76,8 @@ def review(
     mc = monte_carlo(net, tolerances, target, spec=spec, samples=samples, seed=seed)
     tcr = temperature_coefficient(net, tcrs)
     at_temp = value_at(net, tcrs, temp_c) if temp_c is not None else None
-    stress = network_stress(net, point, stock, derating) if point is not None else None
+    if stress is None and point is not None:
+        stress = network_stress(net, point, stock, derating)
     missing = tuple(sorted({p.ohms for p, (_, held) in zip(parts, items) if not held})) if stock else ()
     return Review(
         network=net,

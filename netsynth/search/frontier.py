@@ -133,11 +133,10 @@ def search_frontier(
     needed = parts_for_value(target_ohms, stock)
     bound = part_lower_bound(target_ohms, stock, point, derating) if point is not None else None
     floor = max(needed, bound.count if bound else 1)
+    why = bound.explain() if bound and bound.count >= needed else _value_text(target_ohms, stock, needed)
     if max_parts is not None and max_parts < floor:
-        why = bound.explain() if bound and bound.count >= needed else _value_text(target_ohms, stock, needed)
         raise InfeasibleError(f"--max-parts {max_parts} is too small: {why}")
     if floor > MAX_ARRAY_PARTS:
-        why = bound.explain() if bound and bound.count >= needed else _value_text(target_ohms, stock, needed)
         raise InfeasibleError(f"{why}; netsynth searches up to {MAX_ARRAY_PARTS} parts: use other parts")
     if max_parts is not None:
         limit = max_parts
