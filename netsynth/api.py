@@ -12,61 +12,89 @@ raises :class:`~netsynth.errors.VerificationError` instead of being shown.
 
 from __future__ import annotations
 
+import dataclasses
 import time
 from collections.abc import Callable
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
+from netsynth.analysis.lines import assign_lines
 from netsynth.analysis.review import Review, review
-from netsynth.analysis.stress import network_stress
 from netsynth.design import Candidate, Design, FrontierEntry, PickLine
-from netsynth.errors import ValueParseError
-from netsynth.network import Network, from_text, part_count, part_values, resistance, to_netlist, to_text
+from netsynth.errors import ArgumentError
+from netsynth.inputs import as_bin, as_count, as_fraction, as_ohms, as_temp_c
+from netsynth.network import (
+    Network,
+    Parallel,
+    Part,
+    Series,
+    from_text,
+    part_count,
+    parts_in_order,
+    resistance,
+    to_netlist,
+    to_text,
+)
 from netsynth.nodal import VERIFY_RTOL, verify_resistance
 from netsynth.search.exact import Found
-from netsynth.search.frontier import Preference, pick, search_frontier
-from netsynth.stock import StockBin, default_bin
-from netsynth.values import parse_resistance
+from netsynth.search.frontier import PREFERENCES, Preference, pick, search_frontier
+from netsynth.stock import StockBin, StockItem, bin_order
+from netsynth.values import to_code
+
+#: runners-up per part count the API lists at most
+MAX_ALTERNATIVES = 20
 
 
 def make(
     target: float | str,
-    stock: StockBin | None = None,
+    stock: StockBin | str | None = None,
     max_parts: int | None = None,
-    within: float | None = None,
+    within: float | str | None = None,
     alternatives: int = 3,
     on_progress: Callable[[str], None] | None = None,
     point: OperatingPoint | None = None,
     derating: Derating = Derating(),
     prefer: Preference = "error",
-    spec: float | None = None,
-    temp_c: float | None = None,
+    spec: float | str | None = None,
+    temp_c: float | str | None = None,
 ) -> Design:
     """Find the best series/parallel network for each part count, checked and verified.
 
     Parameters
     ----------
     target : ohms, or a value as people write it (``"3k37"``, ``"25m"``)
-    stock : the bin to build from; the built-in default bin when None
-    max_parts : the largest part count searched; None means 4 without an operating
-        point and "as far as the physics needs" with one
-    within : required accuracy as a fraction (0.001 = ±0.1 %): stop at the fewest
-        parts that land inside it
-    alternatives : runners-up listed per part count
+    stock : the bin to build from: a :class:`StockBin`, a bin file's path, or None for the
+        built-in default bin
+    max_parts : the largest part count searched; None means 4 (or as many as the target needs
+        to be reached) without an operating point and "as far as the physics needs" with one
+    within : required accuracy, a fraction (0.001) or text (``"0.1%"``, ``"50ppm"``): the answer
+        is the fewest parts that land inside it
+    alternatives : runners-up listed per part count (0..20)
     point : what the network sees (volts, amps or watts; duty; ambient); with it, no
-        part may exceed its derated power or voltage limit
+        part may exceed its own stock line's derated power or voltage limit
     derating : the margins applied to each part's ratings
     prefer : what ranks the recommended network first: ``error``, ``parts`` or ``headroom``
-    spec : the builder's acceptance band (fraction) for the Monte Carlo yield
+    spec : the builder's acceptance band (fraction or text such as ``"1%"``) for the Monte Carlo yield
     temp_c : a temperature (°C) at which to report the value band
 
     Raises
     ------
-    ValueParseError, InfeasibleError, VerificationError
+    ArgumentError, ValueParseError
+        A bad argument (names the parameter).
+    StockError
+        A bin file that cannot be read.
+    InfeasibleError
+        With an operating point, when no network of the parts allowed stays within its limits.
+    VerificationError
+        The nodal check disagrees (a bug; never shown as an answer).
     """
-    target_ohms = parse_resistance(target) if isinstance(target, str) else float(target)
-    if not (target_ohms > 0 and target_ohms != float("inf")):
-        raise ValueParseError(f"target {target!r}: a target resistance must be a finite value above zero")
-    stock = stock if stock is not None else default_bin()
+    target_ohms = as_ohms(target, "target")
+    stock = as_bin(stock)
+    max_parts = as_count(max_parts, "max_parts", 1, 400)
+    within = as_fraction(within, "within")
+    alternatives = as_count(alternatives, "alternatives", 0, MAX_ALTERNATIVES)
+    spec = as_fraction(spec, "spec")
+    temp_c = as_temp_c(temp_c, "temp_c")
+    _check_conditions(point, derating, prefer)
     start = time.perf_counter()
     found = search_frontier(target_ohms, stock, max_parts, within, alternatives, on_progress, point, derating)
     frontier = tuple(
@@ -75,14 +103,14 @@ def make(
             alternatives=tuple(checked(f, target_ohms) for f in row.alternatives),
             proven=row.proven,
             method=row.method,
-            stress=network_stress(row.best.network, point, stock, derating) if point is not None else None,
+            stress=row.stress,
         )
         for row in found.rows
     )
     chosen = pick(found.rows, prefer, within)
     entry = next(e for e in frontier if e.parts == chosen.parts)
     best = entry.best
-    verdict = review(best.network, stock, point, derating, target_ohms, spec, temp_c, stress=entry.stress)
+    verdict = review(best.network, point, derating, target_ohms, spec, temp_c, stress=entry.stress)
     seconds = time.perf_counter() - start
     return Design(
         target_ohms=target_ohms,
@@ -91,40 +119,70 @@ def make(
         within=within,
         frontier=frontier,
         best=best,
-        pick_list=pick_list(best.network, stock),
+        pick_list=pick_list(best.network),
         review=verdict,
         point=point,
         derating=derating,
         prefer=prefer,
         bound=found.bound,
-        value_parts=found.value_parts,
+        reach=found.reach,
+        within_met=found.within_met,
         part_limit=found.limit,
         exhaustive_parts=found.exhaustive_parts,
         seconds=seconds,
     )
 
 
+def _check_conditions(point: object, derating: object, prefer: object = "error") -> None:
+    if point is not None and not isinstance(point, OperatingPoint):
+        raise ArgumentError(f"point={point!r}: expected an OperatingPoint or None")
+    if not isinstance(derating, Derating):
+        raise ArgumentError(f"derating={derating!r}: expected a Derating")
+    if prefer not in PREFERENCES:
+        raise ArgumentError(f"prefer={prefer!r}: choose one of {', '.join(PREFERENCES)}")
+
+
 def check(
     network: Network | str,
-    stock: StockBin | None = None,
+    stock: StockBin | str | None = None,
     point: OperatingPoint | None = None,
     derating: Derating = Derating(),
-    spec: float | None = None,
-    temp_c: float | None = None,
+    spec: float | str | None = None,
+    temp_c: float | str | None = None,
     target: float | str | None = None,
 ) -> tuple[Candidate, Review]:
     """Analyse a network the user typed: value, nodal check, bands, drift, per-part stress.
 
-    Parts are matched to ``stock`` (the default bin when None) by value for their
-    ratings; values the bin does not hold get the bin defaults and are listed in
-    ``Review.not_in_bin``.
+    Each part is tied to a line of ``stock`` (the default bin when None) of its value; where
+    several lines share a value, the one that gives the most headroom at ``point`` (else the
+    first in the bin's order). Values the bin does not hold get the bin defaults and are
+    listed in ``Review.not_in_bin``; a network that takes more of a line than the bin holds
+    gets a note.
     """
-    net = from_text(network) if isinstance(network, str) else network
-    stock = stock if stock is not None else default_bin()
+    if isinstance(network, str):
+        net = from_text(network)
+    elif isinstance(network, (Part, Series, Parallel)):
+        net = network
+    else:
+        raise ArgumentError(f"network={network!r}: expected a network or its text form, e.g. '1k + (2k2 || 4k7)'")
+    stock = as_bin(stock)
+    spec = as_fraction(spec, "spec")
+    temp_c = as_temp_c(temp_c, "temp_c")
+    _check_conditions(point, derating)
+    assigned = assign_lines(net, stock, point, derating, counts_bind=False, missing_ok=True)
+    net = assigned.network
     value = resistance(net)
-    target_ohms = value if target is None else (parse_resistance(target) if isinstance(target, str) else float(target))
+    target_ohms = value if target is None else as_ohms(target, "target")
     candidate = checked(Found(net, value, value / target_ohms - 1.0, part_count(net)), target_ohms)
-    return candidate, review(net, stock, point, derating, target_ohms, spec, temp_c)
+    verdict = review(net, point, derating, target_ohms, spec, temp_c)
+    short = tuple(
+        f"the network takes {need} more of {to_code(line.ohms)} than the bin's line"
+        + (f" at {line.location}" if line.location else "") + " holds"
+        for line, need in assigned.short
+    )
+    if short:
+        verdict = dataclasses.replace(verdict, notes=verdict.notes + short)
+    return candidate, verdict
 
 
 def checked(found: Found, target_ohms: float) -> Candidate:
@@ -146,13 +204,13 @@ def checked(found: Found, target_ohms: float) -> Candidate:
     )
 
 
-def pick_list(net: Network, stock: StockBin) -> tuple[PickLine, ...]:
-    """Parts to take from the bin for ``net``, grouped by value, with their locations."""
-    counts: dict[float, int] = {}
-    for ohms in part_values(net):
-        counts[ohms] = counts.get(ohms, 0) + 1
-    lines = []
-    for ohms, count in counts.items():
-        item = stock.item_for(ohms)
-        lines.append(PickLine(ohms, count, item.location if item is not None else ""))
-    return tuple(lines)
+def pick_list(net: Network) -> tuple[PickLine, ...]:
+    """Parts to take from the bin for ``net``, one entry per stock line, in the bin's order.
+
+    Each part carries its line, so this only counts; parts tied to no line are left out.
+    """
+    counts: dict[StockItem, int] = {}
+    for part in parts_in_order(net):
+        if part.line is not None:
+            counts[part.line] = counts.get(part.line, 0) + 1
+    return tuple(PickLine(line, n) for line, n in sorted(counts.items(), key=lambda kv: bin_order(kv[0])))

@@ -1,33 +1,57 @@
 """The ``netsynth`` command: a thin shell over :mod:`netsynth.api`.
 
-The only module that imports click. Library errors become one ``Error: ...`` line
-and exit status 1; usage errors exit 2 through click.
+The only module that imports click. Option values are read by click parameter types
+that call the :mod:`netsynth.values` parsers, so a bad or empty option value is a
+usage error (exit status 2), like a missing argument or conflicting options. Errors
+the library raises (:class:`~netsynth.errors.NetsynthError`) exit with status 1.
+
+Every error is reported in one place, :meth:`Shell.main`. Without ``--json`` it is
+one ``Error: ...`` line on stderr (click adds the usage line for usage errors). With
+``--json`` it is exactly one JSON object on stdout and nothing else there::
+
+    {"error": {"kind": "usage", "message": "Invalid value for '--within': ..."}}
+
+``kind`` is ``usage`` (exit 2), or for library errors (exit 1) ``parse``
+(ValueParseError), ``stock`` (StockError), ``argument`` (ArgumentError),
+``infeasible`` (InfeasibleError) or ``verification`` (VerificationError);
+``message`` is one line.
 """
 
 from __future__ import annotations
 
 import json
 import sys
-from collections.abc import Callable
-from functools import wraps
+from collections.abc import Callable, Sequence
+from typing import Any
 
 import click
+from click.shell_completion import CompletionItem
 
 from netsynth.analysis.conditions import (
     DEFAULT_AMBIENT_C,
     DEFAULT_POWER_FACTOR,
     DEFAULT_VOLTAGE_FACTOR,
+    MAX_AMBIENT_C,
+    MIN_AMBIENT_C,
     Derating,
     OperatingPoint,
 )
 from netsynth.api import check as check_network
 from netsynth.api import make as make_design
-from netsynth.errors import NetsynthError
+from netsynth.errors import (
+    ArgumentError,
+    InfeasibleError,
+    NetsynthError,
+    StockError,
+    ValueParseError,
+    VerificationError,
+)
 from netsynth.eseries import SERIES_NAMES
+from netsynth.inputs import as_factor, as_temp_c
 from netsynth.render.json import check_dict, design_dict
 from netsynth.render.report import check_text, design_text
 from netsynth.search.frontier import PREFERENCES
-from netsynth.stock import StockBin, default_bin, kit_bin, load_bin
+from netsynth.stock import DEFAULT_POWER_W, DEFAULT_TOLERANCE, StockBin, default_bin, kit_bin, load_bin
 from netsynth.values import (
     format_ohms,
     parse_current,
@@ -41,22 +65,143 @@ from netsynth.values import (
     to_code,
 )
 
+# ------------------------------------------------------------------ option value types
 
-def _friendly(fn: Callable) -> Callable:
-    """Turn NetsynthError into one line on stderr and exit status 1."""
 
-    @wraps(fn)
-    def run(*args, **kwargs):
+class Parsed(click.ParamType):
+    """An option value read by a netsynth parser; an unreadable or empty value is a usage error.
+
+    `parse` turns the text into the value the library takes and raises
+    ValueParseError or ArgumentError on bad text. `example` finishes the sentence
+    "give ..." when the value is empty. `label` is the parameter name a parser from
+    :mod:`netsynth.inputs` puts in front of its message; it is dropped, since click
+    already names the option.
+    """
+
+    def __init__(self, name: str, parse: Callable[[str], Any], example: str, label: str = "") -> None:
+        self.name = name
+        self.parse = parse
+        self.example = example
+        self.label = label
+
+    def convert(self, value: Any, param: click.Parameter | None, ctx: click.Context | None) -> Any:
+        if not isinstance(value, str):
+            return value  # a default, already in the library's form
+        if not value.strip():
+            self.fail(f"the value is empty; give {self.example}", param, ctx)
         try:
-            return fn(*args, **kwargs)
+            return self.parse(value)
+        except (ValueParseError, ArgumentError) as exc:
+            message = str(exc)
+            for prefix in (f"{self.label}: ", f"{self.label}="):
+                if self.label and message.startswith(prefix):
+                    message = message[len(prefix):]
+            self.fail(message, param, ctx)
+
+
+class BinPath(click.ParamType):
+    """The path of a stock bin file: any non-empty text (the file is read by ``load_bin``)."""
+
+    name = "file"
+
+    def convert(self, value: Any, param: click.Parameter | None, ctx: click.Context | None) -> Any:
+        if isinstance(value, str) and not value.strip():
+            self.fail("the file name is empty; give the path of a bin file (.csv), or leave it out "
+                      "to use the built-in default bin", param, ctx)
+        return value
+
+    def shell_complete(self, ctx: click.Context, param: click.Parameter, incomplete: str) -> list[CompletionItem]:
+        return [CompletionItem(incomplete, type="file")]
+
+
+def _ambient(text: str) -> float:
+    celsius = as_temp_c(text, "ambient")
+    if not MIN_AMBIENT_C <= celsius <= MAX_AMBIENT_C:
+        raise ArgumentError(f"{text.strip()!r}: expected an ambient temperature from {MIN_AMBIENT_C:g} to "
+                            f"{MAX_AMBIENT_C:g} °C")
+    return celsius
+
+
+RESISTANCE = Parsed("resistance", parse_resistance, "a resistance such as 4k7, 4.7k, 470R or R47")
+ACCURACY = Parsed("accuracy", parse_ratio, "an accuracy such as 0.1%, 50ppm or 1e-5%")
+TOLERANCE = Parsed("tolerance", parse_tolerance, "a tolerance such as 1%, 0.5 %, 50ppm or F")
+VOLTAGE = Parsed("voltage", parse_voltage, "a voltage such as 24, 24V or 1kV")
+CURRENT = Parsed("current", parse_current, "a current such as 2, 2A or 150mA")
+POWER = Parsed("power", parse_power, "a power such as 5, 0.25W, 1/4W or 250mW")
+DUTY = Parsed("duty", parse_duty, "a duty cycle such as 10% or 0.1")
+RANGE = Parsed("range", parse_range, "a range LOW..HIGH such as 10..1M")
+AMBIENT = Parsed("temperature", _ambient, "a temperature in °C such as 25, -40 or 85C", label="ambient")
+TEMPERATURE = Parsed("temperature", lambda text: as_temp_c(text, "temp"),
+                     "a temperature in °C such as 85, -40 or 85C", label="temp")
+FACTOR = Parsed("factor", lambda text: as_factor(text, "factor"), "a fraction such as 0.5 or 50%", label="factor")
+BIN_FILE = BinPath()
+
+
+# ------------------------------------------------------------------ errors, in one place
+
+#: library error classes and their ``kind`` in a JSON error object
+ERROR_KINDS: tuple[tuple[type[NetsynthError], str], ...] = (
+    (ValueParseError, "parse"),
+    (StockError, "stock"),
+    (ArgumentError, "argument"),
+    (InfeasibleError, "infeasible"),
+    (VerificationError, "verification"),
+)
+
+
+def _error_kind(exc: NetsynthError) -> str:
+    # none raises a bare NetsynthError; should one appear, it is "no network could be made"
+    return next((kind for cls, kind in ERROR_KINDS if isinstance(exc, cls)), "infeasible")
+
+
+def _one_line(text: str) -> str:
+    return " ".join(line.strip() for line in text.splitlines() if line.strip())
+
+
+def _asks_for_json(args: Sequence[str]) -> bool:
+    """Whether ``--json`` is on the command line (before a ``--`` that ends the options)."""
+    for arg in args:
+        if arg == "--":
+            return False
+        if arg == "--json" or arg.startswith("--json="):
+            return True
+    return False
+
+
+def _json_error(kind: str, message: str) -> None:
+    click.echo(json.dumps({"error": {"kind": kind, "message": _one_line(message)}}, ensure_ascii=False))
+
+
+class Shell(click.Group):
+    """The ``netsynth`` group: reports every error once, as text or (with ``--json``) as JSON."""
+
+    def main(self, args: Sequence[str] | None = None, prog_name: str | None = None,
+             complete_var: str | None = None, standalone_mode: bool = True, **extra: Any) -> Any:
+        if not standalone_mode:  # a caller who wants the exceptions gets them
+            return super().main(args, prog_name, complete_var, standalone_mode, **extra)
+        as_json = _asks_for_json(sys.argv[1:] if args is None else list(args))
+        try:
+            code = super().main(args, prog_name, complete_var, False, **extra)
+        except click.ClickException as exc:  # usage errors (exit 2); click raises no other kind here
+            if as_json:
+                _json_error("usage", exc.format_message())
+            else:
+                exc.show()
+            sys.exit(exc.exit_code)
         except NetsynthError as exc:
-            click.echo(f"Error: {exc}", err=True)
+            if as_json:
+                _json_error(_error_kind(exc), str(exc))
+            else:
+                click.echo(f"Error: {_one_line(str(exc))}", err=True)
             sys.exit(1)
+        except click.Abort:
+            click.echo("Aborted!", err=True)
+            sys.exit(1)
+        # --help and --version end with an exit code; a finished command returns None
+        sys.exit(code if isinstance(code, int) else 0)
 
-    return run
 
-
-@click.group(context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
+@click.group(cls=Shell, context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
 @click.version_option(package_name="netsynth")
 def cli() -> None:
     """Build a resistance your drawer does not hold from parts it does.
@@ -71,19 +216,38 @@ def cli() -> None:
     R47, 0R22, 47R, 1M0, 2M2, 10m (milliohm), 1.5e3.  Lowercase m is milli,
     uppercase M is mega.
 
+    \b
+    Other quantities, with or without their unit:
+      accuracy, tolerance  0.1%, 50ppm, 1e-5%  (tolerances also F = 1 %)
+      voltage, current     24, 1kV, 150mA
+      power                5, 1/4W, 250mW
+      temperature          85, -40, 85C  (°C)
+
+    \b
+    Exit status: 0 done; 1 no answer (unreadable expression, bad bin,
+    nothing meets the limits); 2 a bad command line.  With --json every
+    error is one object on stdout:
+      {"error": {"kind": "usage", "message": "..."}}
+
     Start with:  netsynth make 3k37
     """
 
 
-def _load_stock(bin_file: str | None, series: str | None, value_range: str | None, qty: int | None) -> StockBin:
-    kit_given = series is not None or value_range is not None or qty is not None
-    if bin_file and kit_given:
-        raise click.UsageError("give either --bin FILE or kit options (--series/--range/--qty), not both")
-    if bin_file:
+KIT_OPTIONS = "--series/--range/--qty/--kit-tolerance/--kit-power"
+
+
+def _load_stock(bin_file: str | None, series: str | None, value_range: tuple[float, float] | None,
+                qty: int | None, kit_tolerance: float | None, kit_power: float | None) -> StockBin:
+    kit_given = any(x is not None for x in (series, value_range, qty, kit_tolerance, kit_power))
+    if bin_file is not None and kit_given:
+        raise click.UsageError(f"give either --bin FILE or kit options ({KIT_OPTIONS}), not both")
+    if bin_file is not None:
         return load_bin(bin_file)
     if kit_given:
-        low, high = parse_range(value_range) if value_range else (10.0, 1e6)
-        return kit_bin(series or "E24", low, high, count=qty)
+        low, high = value_range if value_range is not None else (10.0, 1e6)
+        return kit_bin(series or "E24", low, high, count=qty,
+                       tolerance=DEFAULT_TOLERANCE if kit_tolerance is None else kit_tolerance,
+                       power_rating_w=DEFAULT_POWER_W if kit_power is None else kit_power)
     return default_bin()
 
 
@@ -95,22 +259,31 @@ def _progress(message: str) -> None:
 def operating_options(fn: Callable) -> Callable:
     """The options that state what the network sees and how hard its parts may work."""
     options = [
-        click.option("--volts", metavar="V", help="Voltage across the network, e.g. 24, 1kV (peak when pulsed)."),
-        click.option("--amps", metavar="A", help="Current through the network, e.g. 2, 150mA (peak when pulsed)."),
-        click.option("--watts", metavar="W", help="Power the network dissipates, e.g. 5, 1/4W (peak when pulsed)."),
-        click.option("--duty", metavar="PCT", help="Fraction of time driven, e.g. 10% (default 100 %): power limits "
-                     "apply to the average, voltage limits to the peak."),
-        click.option("--ambient", type=float, default=DEFAULT_AMBIENT_C, show_default=True, metavar="°C",
-                     help="Air temperature around the parts; above 70 °C ratings derate linearly to zero at each "
-                     "part's max_temp (IEC 60115-1 style curve)."),
-        click.option("--derate", type=float, default=DEFAULT_POWER_FACTOR, show_default=True, metavar="F",
-                     help="Fraction of the (temperature-derated) power rating a part may use (common practice)."),
-        click.option("--volt-derate", type=float, default=DEFAULT_VOLTAGE_FACTOR, show_default=True, metavar="F",
-                     help="Fraction of the rated voltage min(max_volts, √(P·R)) a part may see."),
+        click.option("--volts", type=VOLTAGE, metavar="V",
+                     help="Voltage across the network, in volts: 24, 24V, 1.5 kV (peak when pulsed)."),
+        click.option("--amps", type=CURRENT, metavar="A",
+                     help="Current through the network, in amperes: 2, 2A, 150mA (peak when pulsed)."),
+        click.option("--watts", type=POWER, metavar="W",
+                     help="Power the network dissipates, in watts: 5, 5W, 1/4W, 250mW (peak when pulsed)."),
+        click.option("--duty", type=DUTY, metavar="PCT",
+                     help="Fraction of time driven: 10% or 0.1 (default 100 %). Power limits apply to the "
+                     "average, voltage limits to the peak."),
+        click.option("--ambient", type=AMBIENT, default=DEFAULT_AMBIENT_C, show_default=True, metavar="°C",
+                     help=f"Air temperature around the parts in °C: 40, -20, 85C ({MIN_AMBIENT_C:g} to "
+                     f"{MAX_AMBIENT_C:g}). Above 70 °C ratings derate linearly to zero at each part's max_temp "
+                     "(IEC 60115-1 style curve)."),
+        click.option("--derate", type=FACTOR, default=DEFAULT_POWER_FACTOR, show_default=True, metavar="F",
+                     help="Fraction of the (temperature-derated) power rating a part may use: 0.5 or 50% "
+                     "(above 0, at most 1; a common margin)."),
+        click.option("--volt-derate", type=FACTOR, default=DEFAULT_VOLTAGE_FACTOR, show_default=True, metavar="F",
+                     help="Fraction of the rated voltage min(max_volts, √(P·R)) a part may see: 0.8 or 80% "
+                     "(above 0, at most 1)."),
         click.option("--mains", is_flag=True, help="The network is connected to mains: adds the mains caution."),
-        click.option("--spec", metavar="TOL", help="Your acceptance band around the target, e.g. 1%: reports the "
-                     "Monte Carlo yield."),
-        click.option("--temp", type=float, metavar="°C", help="Report the value band at this temperature."),
+        click.option("--spec", type=TOLERANCE, metavar="TOL",
+                     help="Your acceptance band around the target: 1%, 0.5 %, 500ppm or a letter (F = 1 %). "
+                     "Reports the Monte Carlo yield."),
+        click.option("--temp", type=TEMPERATURE, metavar="°C",
+                     help="Report the value band at this temperature in °C: 85, -40, 125C."),
     ]
     for option in reversed(options):
         fn = option(fn)
@@ -126,52 +299,55 @@ def _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains):
         if duty is not None or mains:
             raise click.UsageError("--duty and --mains need an operating point: --volts, --amps or --watts")
         return None, derating
-    point = OperatingPoint(
-        volts=parse_voltage(volts) if volts is not None else None,
-        amps=parse_current(amps) if amps is not None else None,
-        watts=parse_power(watts) if watts is not None else None,
-        duty=parse_duty(duty) if duty is not None else 1.0,
-        ambient_c=ambient,
-        mains=mains,
-    )
+    point = OperatingPoint(volts=volts, amps=amps, watts=watts, duty=1.0 if duty is None else duty,
+                           ambient_c=ambient, mains=mains)
     return point, derating
 
 
 @cli.command()
-@click.argument("target")
-@click.option("--bin", "bin_file", type=click.Path(dir_okay=False), metavar="FILE",
-              help="Stock bin CSV (columns value, qty, tolerance, watts, max_volts, tcr, package, location, note).")
+@click.argument("target", type=RESISTANCE)
+@click.option("--bin", "bin_file", type=BIN_FILE, metavar="FILE",
+              help="Stock bin CSV (columns value, qty, tolerance, watts, max_volts, tcr, max_temp, package, "
+              "location, note), e.g. bins/makerspace-drawer.csv.")
 @click.option("--series", type=click.Choice(SERIES_NAMES, case_sensitive=False),
               help="Use a kit of one E-series instead of a bin file (IEC 60063).")
-@click.option("--range", "value_range", metavar="LOW..HIGH",
-              help="Kit value range, e.g. 10..1M (default 10..1M).")
+@click.option("--range", "value_range", type=RANGE, metavar="LOW..HIGH",
+              help="Kit value range, both ends included: 10..1M, 1R..10k, 100..100k (default 10..1M).")
 @click.option("--qty", type=click.IntRange(min=1), metavar="N",
               help="Kit parts per value (default: as many as needed).")
+@click.option("--kit-tolerance", type=TOLERANCE, metavar="TOL",
+              help=f"Kit part tolerance: 1%, 0.1 %, or a letter (F = 1 %, B = 0.1 %) "
+              f"(default {DEFAULT_TOLERANCE * 100:g} %, as the default bin).")
+@click.option("--kit-power", type=POWER, metavar="W",
+              help=f"Kit part power rating at 70 °C: 0.25, 1/4W, 250mW, 1W (default {DEFAULT_POWER_W:g} W, "
+              "as the default bin).")
 @click.option("--max-parts", "-k", type=click.IntRange(min=1, max=400), metavar="K",
-              help="Largest part count to search (default 4; with an operating point, as many as needed).")
-@click.option("--within", metavar="TOL",
-              help="Required accuracy, e.g. 0.1% or 50ppm: stop at the fewest parts inside it.")
-@click.option("--alternatives", type=click.IntRange(min=0, max=20), default=2, show_default=True,
+              help="Largest part count to search, 1 to 400 (default 4; with an operating point, as many as needed).")
+@click.option("--within", type=ACCURACY, metavar="TOL",
+              help="Required accuracy: 0.1%, 50ppm, 1e-5% (a bare number is refused: fraction or percent?). "
+              "Stops at the fewest parts inside it.")
+@click.option("--alternatives", type=click.IntRange(min=0, max=20), default=2, show_default=True, metavar="N",
               help="Runners-up to list per part count.")
 @click.option("--prefer", type=click.Choice(PREFERENCES), default="error", show_default=True,
               help="What ranks the recommended network first: smallest error, fewest parts, or most headroom "
               "(the last two among networks within --within, default ±1 %).")
 @operating_options
-@click.option("--json", "as_json", is_flag=True, help="Print one JSON object for scripts.")
-@_friendly
-def make(target, bin_file, series, value_range, qty, max_parts, within, alternatives, prefer, volts, amps, watts,
-         duty, ambient, derate, volt_derate, mains, spec, temp, as_json):
+@click.option("--json", "as_json", is_flag=True,
+              help="Print one JSON object for scripts; errors too: {\"error\": {\"kind\": ..., \"message\": ...}}.")
+def make(target, bin_file, series, value_range, qty, kit_tolerance, kit_power, max_parts, within, alternatives,
+         prefer, volts, amps, watts, duty, ambient, derate, volt_derate, mains, spec, temp, as_json):
     """Find the best networks for TARGET ohms from your stock.
 
-    TARGET is a resistance such as 3k37, 25m or 1.8M. Without --bin or kit
-    options the built-in default bin is used: a full E24 kit from 10 Ω to
-    1 MΩ, 1 % ¼ W parts, as many of each as needed.
+    TARGET is a resistance such as 3k37, 25m (milliohm) or 1M8. Without --bin
+    or kit options the built-in default bin is used: a full E24 kit from
+    10 Ω to 1 MΩ, 1 % ¼ W parts, as many of each as needed.
 
     \b
     Examples:
       netsynth make 3k37
       netsynth make 25m --bin bins/power-shelf.csv
       netsynth make 1k234 --series E12 --range 100..100k --qty 2 -k 5
+      netsynth make 4k99 --series E96 --kit-tolerance 0.1% --kit-power 1/8W
       netsynth make 3k37 --within 0.1% --json
       netsynth make 10 --watts 5 --bin bins/power-shelf.csv
       netsynth make 1M8 --volts 1kV --series E24 --range 10k..1M
@@ -179,14 +355,15 @@ def make(target, bin_file, series, value_range, qty, max_parts, within, alternat
     With --volts, --amps or --watts every part must stay within its derated
     power and voltage limits; the search then goes to as many parts as the
     physics needs, and reports the lower bound on the count.
+
+    Exit status: 0 done, 1 no answer (bad bin, nothing meets the limits),
+    2 a bad command line.
     """
-    stock = _load_stock(bin_file, series, value_range, qty)
-    target_ohms = parse_resistance(target)
-    tol = parse_ratio(within) if within is not None else None
+    stock = _load_stock(bin_file, series, value_range, qty, kit_tolerance, kit_power)
     point, derating = _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains)
-    design = make_design(target_ohms, stock, max_parts=max_parts, within=tol, alternatives=alternatives,
+    design = make_design(target, stock, max_parts=max_parts, within=within, alternatives=alternatives,
                          on_progress=None if as_json else _progress, point=point, derating=derating, prefer=prefer,
-                         spec=parse_tolerance(spec) if spec else None, temp_c=temp)
+                         spec=spec, temp_c=temp)
     if as_json:
         click.echo(json.dumps(design_dict(design), indent=2, ensure_ascii=False))
     else:
@@ -195,12 +372,14 @@ def make(target, bin_file, series, value_range, qty, max_parts, within, alternat
 
 @cli.command()
 @click.argument("expression")
-@click.option("--bin", "bin_file", type=click.Path(dir_okay=False), metavar="FILE",
-              help="Stock bin the parts come from (ratings, tolerance, tcr); default: the built-in bin.")
-@click.option("--target", metavar="OHMS", help="The value the network is meant to have (for its error and yield).")
+@click.option("--bin", "bin_file", type=BIN_FILE, metavar="FILE",
+              help="Stock bin the parts come from (ratings, tolerance, tcr), e.g. bins/power-shelf.csv; "
+              "default: the built-in bin.")
+@click.option("--target", type=RESISTANCE, metavar="OHMS",
+              help="The value the network is meant to have, e.g. 3k37 (for its error and yield).")
 @operating_options
-@click.option("--json", "as_json", is_flag=True, help="Print one JSON object for scripts.")
-@_friendly
+@click.option("--json", "as_json", is_flag=True,
+              help="Print one JSON object for scripts; errors too: {\"error\": {\"kind\": ..., \"message\": ...}}.")
 def check(expression, bin_file, target, volts, amps, watts, duty, ambient, derate, volt_derate, mains, spec, temp,
           as_json):
     """Analyse a network you typed: value, bands, drift and per-part stress.
@@ -212,13 +391,13 @@ def check(expression, bin_file, target, volts, amps, watts, duty, ambient, derat
     \b
     Examples:
       netsynth check "1k + (2k2 || 4k7)"
+      netsynth check "680 + 2k7" --target 3k37 --spec 0.5% --temp 85
       netsynth check "(100 + 100) || (100 + 100)" --volts 24 --bin bins/power-shelf.csv
       netsynth check "470k + 470k + 470k + 470k" --volts 1kV --ambient 50 --json
     """
-    stock = load_bin(bin_file) if bin_file else default_bin()
+    stock = load_bin(bin_file) if bin_file is not None else default_bin()
     point, derating = _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains)
-    candidate, verdict = check_network(expression, stock, point, derating,
-                                       spec=parse_tolerance(spec) if spec else None, temp_c=temp, target=target)
+    candidate, verdict = check_network(expression, stock, point, derating, spec=spec, temp_c=temp, target=target)
     if as_json:
         click.echo(json.dumps(check_dict(candidate, verdict), indent=2, ensure_ascii=False))
     else:
@@ -226,12 +405,17 @@ def check(expression, bin_file, target, volts, amps, watts, duty, ambient, derat
 
 
 @cli.command(name="bin")
-@click.argument("bin_file", required=False, type=click.Path(dir_okay=False), metavar="FILE")
-@click.option("--json", "as_json", is_flag=True, help="Print the bin as JSON.")
-@_friendly
+@click.argument("bin_file", required=False, type=BIN_FILE, metavar="FILE")
+@click.option("--json", "as_json", is_flag=True, help="Print the bin as JSON (errors as {\"error\": ...}).")
 def show_bin(bin_file, as_json):
-    """Check a stock bin file and list what it holds (the default bin without FILE)."""
-    stock = load_bin(bin_file) if bin_file else default_bin()
+    """Check a stock bin file and list what it holds (the default bin without FILE).
+
+    \b
+    Examples:
+      netsynth bin bins/precision-kit.csv
+      netsynth bin --json
+    """
+    stock = load_bin(bin_file) if bin_file is not None else default_bin()
     if as_json:
         items = [
             {"value_ohms": i.ohms, "qty": i.count, "tolerance": i.tolerance, "watts": i.power_rating_w,

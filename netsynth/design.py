@@ -10,8 +10,10 @@ from dataclasses import dataclass
 from netsynth.analysis.conditions import Derating, OperatingPoint
 from netsynth.analysis.review import Review
 from netsynth.analysis.stress import NetworkStress
-from netsynth.network import Network
+from netsynth.network import Network, Part, parts_in_order
 from netsynth.search.arrays import PartBound
+from netsynth.search.frontier import Reach
+from netsynth.stock import StockItem
 
 
 @dataclass(frozen=True, slots=True)
@@ -24,6 +26,11 @@ class Candidate:
     value_ohms: float
     error: float  #: signed relative error, value / target − 1
     verified_ohms: float  #: from the nodal solver, which knows no series/parallel rule
+
+    @property
+    def components(self) -> tuple[Part, ...]:
+        """Every part with its stock line, in the order the parts appear in ``expression``."""
+        return tuple(parts_in_order(self.network))
 
 
 @dataclass(frozen=True, slots=True)
@@ -43,11 +50,18 @@ class FrontierEntry:
 
 @dataclass(frozen=True, slots=True)
 class PickLine:
-    """How many parts of one value the chosen network takes from the bin, and where they live."""
+    """How many parts the chosen network takes from one stock line, and where they live."""
 
-    ohms: float
+    line: StockItem  #: the stock line itself (value, ratings, tolerance, location)
     count: int
-    location: str
+
+    @property
+    def ohms(self) -> float:
+        return self.line.ohms
+
+    @property
+    def location(self) -> str:
+        return self.line.location
 
 
 @dataclass(frozen=True, slots=True)
@@ -66,7 +80,13 @@ class Design:
     derating: Derating
     prefer: str
     bound: PartBound | None  #: lower bound on the part count at the operating point
-    value_parts: int  #: the fewest parts that can reach the target from the bin's values
+    reach: Reach  #: the fewest parts that reach the target at all (None there: the whole bin cannot)
+    within_met: bool | None  #: with ``within``: whether some row lands inside it
     part_limit: int  #: the largest part count searched
     exhaustive_parts: int  #: part counts up to this were searched exhaustively
     seconds: float
+
+    @property
+    def value_parts(self) -> int:
+        """The fewest parts that reach the target from the bin (the part limit when the bin cannot)."""
+        return self.reach.parts if self.reach.parts is not None else self.part_limit

@@ -5,6 +5,7 @@
     NetsynthError
      ├─ ValueParseError (also ValueError)   a value or expression could not be read
      ├─ StockError      (also ValueError)   the bin is unusable (file, line, field)
+     ├─ ArgumentError   (also ValueError)   an argument is invalid (out of range, wrong type)
      ├─ InfeasibleError                     nothing meets the limits; says which and what to relax
      └─ VerificationError                   the nodal check disagrees, or a node floats
 
@@ -25,6 +26,14 @@ class ValueParseError(NetsynthError, ValueError):
 
 class StockError(NetsynthError, ValueError):
     """A stock bin is unusable; the message names the file, line and field."""
+
+
+class ArgumentError(NetsynthError, ValueError):
+    """An argument is invalid (out of range, wrong type); the message names the parameter.
+
+    Distinct from :class:`InfeasibleError`: the request itself is malformed, not merely
+    impossible to meet with the bin at hand.
+    """
 
 
 class InfeasibleError(NetsynthError):

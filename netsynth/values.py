@@ -37,7 +37,7 @@ one field into two (or the reverse). The message offers ``4.7k`` and ``4k7``.
 
 Other quantities:
 
-* tolerance (:func:`parse_tolerance`): ``1%``, ``0.1 %``, ``±5%``, ``50ppm`` or an
+* tolerance (:func:`parse_tolerance`): ``1%``, ``0.1 %``, ``±5%``, ``50ppm``, ``1e-3%`` or an
   IEC 60062 letter alone (B C D F G J K M); a bare number is rejected because
   ``0.01`` could mean 1 % or 0.01 %. Returned as a fraction.
 * accuracy ratio (:func:`parse_ratio`): as tolerance, without the letters.
@@ -161,8 +161,10 @@ def to_code(ohms: float) -> str:
     """Write a resistance as a compact RKM-style code that reads back exactly.
 
     The digits are Python's shortest round-trip digits (``repr``), placed around a
-    multiplier letter: none or ``R`` for 0.1 Ω to 1 kΩ, ``k``, ``M``, ``G`` above,
-    ``m`` below 0.1 Ω. No unit is appended.
+    multiplier letter: none or ``R`` from 1 Ω to 1 kΩ, ``k``, ``M``, ``G`` above.
+    Below 1 Ω the code is ``0R`` and the decimals (``0R47``, ``0R1``, ``0R022``):
+    IEC 60062 permits the leading zero, and a code that never starts with a letter
+    cannot be mistaken for a reference designator such as ``R1``. No unit is appended.
 
     Parameters
     ----------
@@ -181,19 +183,18 @@ def to_code(ohms: float) -> str:
 
     Examples
     --------
-    >>> [to_code(x) for x in (4700, 470, 0.47, 0.025, 1.5, 2.2e6, 100000)]
-    ['4k7', '470', 'R47', '25m', '1R5', '2M2', '100k']
+    >>> [to_code(x) for x in (4700, 470, 0.47, 0.1, 0.022, 1.5, 2.2e6, 100000)]
+    ['4k7', '470', '0R47', '0R1', '0R022', '1R5', '2M2', '100k']
     """
     x = float(ohms)
     if not (x > 0 and math.isfinite(x)):
         raise ValueParseError(f"cannot write {ohms!r} as a resistance code: it must be positive and finite")
     d = Decimal(repr(x))
-    shift = next(e for e, low in ((9, "1e9"), (6, "1e6"), (3, "1e3"), (0, "0.1"), (-3, "0")) if d >= Decimal(low))
+    shift = next((e for e, low in ((9, "1e9"), (6, "1e6"), (3, "1e3")) if d >= Decimal(low)), 0)
     whole, _, frac = format(d.scaleb(-shift).normalize(), "f").partition(".")
-    if shift == 0 and not frac and whole != "0":
+    if shift == 0 and not frac:
         return whole
-    letter = {9: "G", 6: "M", 3: "k", 0: "R", -3: "m"}[shift]
-    return ("" if whole == "0" else whole) + letter + frac
+    return whole + {9: "G", 6: "M", 3: "k", 0: "R"}[shift] + frac
 
 
 def _round_sig(d: Decimal, digits: int) -> Decimal:
@@ -265,7 +266,7 @@ _TOLERANCE_LETTERS = {
     "G": 0.02, "J": 0.05, "K": 0.1, "M": 0.2,
 }
 _SIGN = r"(?P<sign>±|\+/-|\+-|[+-])?\s*"
-_FRACTION_RE = re.compile(rf"{_SIGN}{_NUM}\s*(?P<unit>%|(?i:ppm))?")
+_FRACTION_RE = re.compile(rf"{_SIGN}{_NUM}(?P<exp>[eE][+-]?\d+)?\s*(?P<unit>%|(?i:ppm))?")
 
 
 def _parse_fraction(text: str, what: str, *, letters: bool) -> float:
@@ -278,7 +279,10 @@ def _parse_fraction(text: str, what: str, *, letters: bool) -> float:
         raise _fail(s, f"expected {what} such as {example}")
     if not m["unit"]:
         raise _fail(s, f"add % or ppm ({s}% or {s}ppm); a bare number could be a fraction or a percentage")
-    value = float(m["num"] + ("e-2" if m["unit"] == "%" else "e-6"))
+    # one float() of the decimal text with the exponents added: correctly rounded, so
+    # '0.1%' == 0.001 and '1e-5%' == 1e-7 exactly as written
+    exponent = int(m["exp"][1:] if m["exp"] else 0) + (-2 if m["unit"] == "%" else -6)
+    value = float(f"{m['num']}e{exponent}")
     _checked(s, value, m["sign"], what, zero_ok=True)
     if value >= 1:
         raise _fail(s, f"{what} must be below 100 %")
@@ -306,8 +310,8 @@ def parse_tolerance(text: str) -> float:
 
     Examples
     --------
-    >>> parse_tolerance('±5%'), parse_tolerance('F'), parse_tolerance('50ppm')
-    (0.05, 0.01, 5e-05)
+    >>> parse_tolerance('±5%'), parse_tolerance('F'), parse_tolerance('50ppm'), parse_tolerance('1e-2%')
+    (0.05, 0.01, 5e-05, 0.0001)
     """
     return _parse_fraction(text, "a tolerance", letters=True)
 
@@ -316,7 +320,12 @@ def parse_ratio(text: str) -> float:
     """Read a relative accuracy as a fraction (``0.1%`` -> 0.001, ``50ppm`` -> 5e-5).
 
     Same rules as :func:`parse_tolerance` but without the letter codes; 0 is allowed
-    and means an exact match.
+    and means an exact match. The number may carry an exponent, as resistances do.
+
+    Examples
+    --------
+    >>> parse_ratio('0.1%'), parse_ratio('50ppm'), parse_ratio('1e-5%')
+    (0.001, 5e-05, 1e-07)
     """
     return _parse_fraction(text, "an accuracy", letters=False)
 

@@ -57,8 +57,10 @@ def nodal_stress(design: ArrayDesign, point: OperatingPoint):
 def assert_within_limits(design, point, stock, derating):
     """Every part of the design within its derated limits, by nodal solve and datasheet formulas.
 
-    Returns the nodal headroom: min over parts of min(limit watts / watts, limit volts / volts).
+    Returns the nodal headroom as a factor on the drive: part power grows with the square of a
+    volt or amp drive (P = V²/R = I²R) and part voltage with the square root of a watt drive.
     """
+    a, b = (1.0, 0.5) if point.watts is not None else (2.0, 1.0)
     _, parts = nodal_stress(design, point)
     headroom = math.inf
     for ohms, volts, watts in parts:
@@ -67,7 +69,7 @@ def assert_within_limits(design, point, stock, derating):
                                         point.ambient_c, derating.power_factor, derating.voltage_factor)
         assert watts <= lim_w * (1 + SLACK), (design.found.network, ohms, watts, lim_w)
         assert volts <= lim_v * (1 + SLACK), (design.found.network, ohms, volts, lim_v)
-        headroom = min(headroom, lim_w / watts, lim_v / volts)
+        headroom = min(headroom, (lim_w / watts) ** (1 / a), (lim_v / volts) ** (1 / b))
     return headroom
 
 

@@ -15,12 +15,13 @@ import subprocess
 import sys
 from pathlib import Path
 
+import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from netsynth import binfile
 from netsynth.errors import StockError
+from netsynth.stock import binfile
 from netsynth.stock import (
     COLUMNS,
     DEFAULT_MAX_TEMP_C,
@@ -339,12 +340,12 @@ def test_round_trip_bins(tmp_path: Path, make) -> None:
 
 
 def test_saved_format(tmp_path: Path) -> None:
-    # The header and RKM codes a person sees (IEC 60062: 4K7, R47; 1 % written as 1%).
+    # The header and RKM codes a person sees (IEC 60062: 4K7, 0R47; 1 % written as 1%).
     path = tmp_path / "out.csv"
     save_bin(StockBin((StockItem(4700.0, 10), StockItem(0.47, None, 0.05, 1.0, 500.0, 250.0, location="A1"))), path)
     assert path.read_text(encoding="utf-8") == (
         "value,qty,tolerance,watts,max_volts,tcr,package,location,note\n"
-        "R47,,5%,1,500,250,,A1,\n"
+        "0R47,,5%,1,500,250,,A1,\n"
         "4k7,10,1%,0.25,200,100,,,\n"
     )
 
@@ -449,24 +450,33 @@ def test_kit_values_e12() -> None:
         100.0, 120.0, 150.0, 180.0, 220.0, 270.0, 330.0, 390.0, 470.0, 560.0, 680.0, 820.0, 1000.0)
 
 
-TOLERANCES = [
-    # IEC 60063 practice (Wikipedia "E series of preferred numbers"): E24 goes with 5 %
-    ("E24", None, 0.05),
-    # E96 goes with 1 %
-    ("E96", None, 0.01),
-    # E6 goes with 20 %
-    ("E6", None, 0.2),
-    # E3 has no tolerance (">20 %"): the project default, 1 %
-    ("E3", None, DEFAULT_TOLERANCE),
-    # an explicit tolerance wins over the series'
-    ("E24", 0.01, 0.01),
+# The series picks the values only; the parts keep the default bin's grade, 1 % (metal film,
+# Yageo MFR datasheet), even where IEC 60063 practice sells the series at 5 % (E24), 10 % (E12)
+# or 20 % (E6) (Wikipedia "E series of preferred numbers").
+KIT_TOLERANCES = [
+    ("E24", {}, 0.01),  # sold at 5 %: still 1 %
+    ("E12", {"count": 2}, 0.01),  # sold at 10 %, and a quantity given: still 1 %
+    ("E6", {}, 0.01),  # sold at 20 %
+    ("E3", {}, 0.01),  # IEC 60063 gives E3 no tolerance (">20 %")
+    ("E96", {}, 0.01),  # sold at 1 %
+    ("E24", {"tolerance": 0.05}, 0.05),  # an explicit tolerance is used as given
+    ("E192", {"tolerance": 0.001}, 0.001),  # 0.1 %, IEC 60062 letter B
 ]
 
 
-@pytest.mark.parametrize("series, given_tol, expected", TOLERANCES)
-def test_kit_tolerance(series: str, given_tol: float | None, expected: float) -> None:
-    b = kit_bin(series, 10, 100, tolerance=given_tol)
+@pytest.mark.parametrize("series, kwargs, expected", KIT_TOLERANCES)
+def test_kit_tolerance(series: str, kwargs: dict, expected: float) -> None:
+    b = kit_bin(series, 10, 100, **kwargs)
     assert {i.tolerance for i in b.items} == {expected}
+
+
+def test_kit_name_states_tolerance_and_power() -> None:
+    # IEC 60063 E12 holds 1.0 and its decades, so 100 Ω and 10 kΩ are both ends (SI prefix k =
+    # 10^3, SI Brochure Table 7); 1 % ¼ W are the default bin's ratings (Yageo MFR-25 datasheet).
+    assert kit_bin("E12", 100, 10_000).name == "kit E12 100 Ω..10 kΩ, 1 % ¼ W, unlimited"
+    # what the caller gives is what the name says: 5 % ½ W, 2 of each
+    assert kit_bin("E12", 100, 10_000, count=2, tolerance=0.05, power_rating_w=0.5).name == (
+        "kit E12 100 Ω..10 kΩ, 5 % ½ W, 2 each")
 
 
 def test_kit_ratings_and_count() -> None:
@@ -474,6 +484,8 @@ def test_kit_ratings_and_count() -> None:
     assert set(b.counts) == {3}
     assert {(i.power_rating_w, i.max_volts, i.tcr_ppm) for i in b.items} == {(0.125, 150.0, DEFAULT_TCR_PPM)}
     assert b.name.startswith("kit E6 1 kΩ..10 kΩ")
+    # ±25 ppm/K, a thin-film grade (Vishay TNPW datasheet)
+    assert {i.tcr_ppm for i in kit_bin("E6", 1000, 10000, tcr_ppm=25.0).items} == {25.0}
 
 
 @pytest.mark.parametrize("series, low, high", [
@@ -519,6 +531,10 @@ BAD_ITEMS = [
     ({"ohms": 1.0, "max_temp_c": float("inf")}, "max_temp_c"),  # never derates
     ({"ohms": 1.0, "max_temp_c": True}, "max_temp_c"),  # a bool is not a temperature
     ({"ohms": 1.0, "max_temp_c": "155"}, "max_temp_c"),  # text: read it with load_bin instead
+    ({"ohms": 1.0, "line": -1}, "line"),  # lines count from 1; 0 means not assigned yet
+    ({"ohms": 1.0, "line": 2.5}, "line"),  # not a whole line
+    ({"ohms": 1.0, "line": True}, "line"),  # a bool is not a line number
+    ({"ohms": 1.0, "line": "7"}, "line"),  # text
 ]
 
 
@@ -670,7 +686,7 @@ def test_saved_format_with_max_temp(tmp_path: Path) -> None:
     save_bin(StockBin((StockItem(4700.0, 10), StockItem(0.47, 2, max_temp_c=125.0))), path)
     assert path.read_text(encoding="utf-8") == (
         "value,qty,tolerance,watts,max_volts,tcr,max_temp,package,location,note\n"
-        "R47,2,1%,0.25,200,100,125,,,\n"
+        "0R47,2,1%,0.25,200,100,125,,,\n"
         "4k7,10,1%,0.25,200,100,155,,,\n"
     )
 
@@ -700,15 +716,107 @@ def test_round_trip_property_max_temp(tmp_path_factory, parts: list[tuple[StockI
     assert load_bin(path).items == b.items
 
 
+# --------------------------------------------------------------------------- line numbers
+# Expected line numbers are counted by hand in the file text of each test: every physical
+# line counts, comments and blank ones too (a CSV record may span lines inside quotes, RFC 4180
+# section 2 rule 6; its line is the one it starts on).
+
+LINES = [
+    # header on line 1, rows on 2 and 3; items sort by value, lines stay with their rows
+    ("plain", "value,qty\n10k,1\n1k,2\n", [(1000.0, 3), (10_000.0, 2)]),
+    # comments and blank lines before and between rows count as lines
+    ("comments", "# drawer A\n\nvalue,qty\n# resistors\n1k,2\n,\n\n4k7,1\n", [(1000.0, 5), (4700.0, 8)]),
+    # CRLF ends a line like LF (RFC 4180 section 2 rule 1)
+    ("crlf", "value,qty\r\n1k,2\r\n\r\n2k,1\r\n", [(1000.0, 2), (2000.0, 4)]),
+    # a quoted note over three lines: the next row is on line 5
+    ("multi-line cell", 'value,note\n1k,"a\nb\nc"\n2k,x\n', [(1000.0, 2), (2000.0, 5)]),
+    # a qty-0 row keeps its line out of the bin, but later rows keep their own numbers
+    ("qty zero", "value,qty\n1k,0\n2k,4\n", [(2000.0, 3)]),
+    # merged rows: the first row's line (2), also when it is the qty-0 one
+    ("merged", "value,qty\n1k,0\n2k,1\n1k,3\n", [(1000.0, 2), (2000.0, 3)]),
+    # same value, different ratings: two parts, each with its own line
+    ("ratings differ", "value,tolerance\n1k,5%\n1k,1%\n", [(1000.0, 3), (1000.0, 2)]),
+]
+
+
+@pytest.mark.parametrize("content, expected", [c[1:] for c in LINES], ids=[c[0] for c in LINES])
+def test_load_sets_lines(tmp_path: Path, content: str, expected: list[tuple[float, int]]) -> None:
+    b = load_bin(write(tmp_path, content))
+    assert [(i.ohms, i.line) for i in b.items] == expected
+
+
+def test_row_order_does_not_change_item_order(tmp_path: Path) -> None:
+    # The same four rows in two orders: the same parts in the same order; only the lines and
+    # the order of merged texts follow the file.
+    rows = ["1k,1,5%,A", "1k,2,1%,B", "470R,3,1%,C", "1k,4,1%,D"]
+    one = load_bin(write(tmp_path, "value,qty,tolerance,location\n" + "\n".join(rows) + "\n", "one.csv"))
+    two = load_bin(write(tmp_path, "value,qty,tolerance,location\n" + "\n".join(rows[::-1]) + "\n", "two.csv"))
+    # 470R (IEC 60062: 470 Ω) first; the two 1 % 1k rows merge (2 + 4), then the 5 % 1k
+    parts = [(470.0, 0.01, 3), (1000.0, 0.01, 6), (1000.0, 0.05, 1)]
+    assert [(i.ohms, i.tolerance, i.count) for i in one.items] == parts
+    assert [(i.ohms, i.tolerance, i.count) for i in two.items] == parts
+    assert [(i.line, i.location) for i in one.items] == [(4, "C"), (3, "B; D"), (2, "A")]
+    assert [(i.line, i.location) for i in two.items] == [(3, "C"), (2, "D; B"), (5, "A")]
+
+
+def test_built_bins_number_lines_by_position() -> None:
+    # No file: line = 1-based position in the sorted bin.  IEC 60063 E12 from 100 Ω to 1 kΩ is
+    # 13 values (100, 120, ..., 820, 1000).
+    assert [i.line for i in kit_bin("E12", 100, 1000).items] == list(range(1, 14))
+    assert [i.line for i in default_bin().items] == list(range(1, 122))  # 121 values (IEC 60063)
+    b = bin_from_values([1000.0, 10.0, 100.0, 10.0])  # 10 given twice: one item
+    assert [(i.ohms, i.line) for i in b.items] == [(10.0, 1), (100.0, 2), (1000.0, 3)]
+
+
+def test_bin_keeps_given_lines_and_numbers_the_rest() -> None:
+    b = StockBin((StockItem(300.0, line=9), StockItem(100.0), StockItem(200.0, line=4)))
+    assert [(i.ohms, i.line) for i in b.items] == [(100.0, 1), (200.0, 4), (300.0, 9)]
+    assert StockBin(b.items) == b  # already numbered: unchanged
+
+
+def test_line_is_not_part_of_the_item() -> None:
+    # where a part is listed does not make it a different part
+    assert StockItem(1000.0, 2, line=3) == StockItem(1000.0, 2, line=8)
+    assert hash(StockItem(1000.0, 2, line=3)) == hash(StockItem(1000.0, 2, line=8))
+    assert StockItem(1000.0, line=3) != StockItem(1000.0, 2, line=3)  # the count still counts
+    # keyword-only: a positional call means what it meant before the field existed
+    with pytest.raises(TypeError):
+        StockItem(1.0, 2, 0.01, 0.25, 200.0, 100.0, "0805", "A1", "n", (), 5)  # type: ignore[misc]
+    assert StockItem(1.0, line=7).line == 7 and StockItem(1.0).line == 0
+    line = StockItem(1.0, line=np.int64(7)).line  # any whole number type, stored as int
+    assert line == 7 and type(line) is int
+
+
+def test_save_does_not_write_lines(tmp_path: Path) -> None:
+    # A bin read from line 9 saves as the file's own line 2 (header on line 1), no column added.
+    src = write(tmp_path, "# a\n# b\n\nvalue,qty\n\n\n\n\n4k7,2\n", "src.csv")
+    assert [i.line for i in load_bin(src).items] == [9]
+    out = tmp_path / "out.csv"
+    save_bin(load_bin(src), out)
+    assert out.read_text(encoding="utf-8") == (
+        "value,qty,tolerance,watts,max_volts,tcr,package,location,note\n"
+        "4k7,2,1%,0.25,200,100,,,\n"
+    )
+    assert [i.line for i in load_bin(out).items] == [2]
+
+
 # --------------------------------------------------------------------------- module split
 
+STOCK_MODULES = ["netsynth.stock", "netsynth.stock.items", "netsynth.stock.kits", "netsynth.stock.binfile"]
 
-@pytest.mark.parametrize("first", ["netsynth.binfile", "netsynth.stock"])
-def test_either_module_imports_first(first: str) -> None:
-    # stock re-exports binfile's functions at its end and binfile imports stock at its top:
-    # a fresh interpreter must import either one first without a circular-import failure.
-    code = (f"import {first}; import netsynth.stock as s, netsynth.binfile as b; "
-            "assert s.load_bin is b.load_bin and s.save_bin is b.save_bin")
+
+@pytest.mark.parametrize("first", STOCK_MODULES)
+def test_stock_modules_import_in_any_order(first: str) -> None:
+    # The package imports kits and binfile, both import items, items imports neither: a fresh
+    # interpreter imports any of them first, and the package re-exports the same objects.
+    rest = ", ".join(m for m in STOCK_MODULES if m != first)
+    code = (f"import {first}; import {rest}\n"
+            "from netsynth import stock as s\n"
+            "from netsynth.stock import binfile as b, items as i, kits as k\n"
+            "assert s.load_bin is b.load_bin and s.save_bin is b.save_bin\n"
+            "assert s.kit_bin is k.kit_bin and s.default_bin is k.default_bin\n"
+            "assert s.StockBin is i.StockBin and s.StockItem is i.StockItem and s.COLUMNS is i.COLUMNS\n"
+            "assert b.StockBin is i.StockBin and k.StockItem is i.StockItem\n")
     root = Path(__file__).resolve().parent.parent
     env = {**os.environ, "PYTHONPATH": str(root)}
     done = subprocess.run([sys.executable, "-c", code], cwd=root, env=env, capture_output=True, text=True)

@@ -120,9 +120,12 @@ def test_parse_resistance_rejects(text, fragment):
         (1000.0, "1k"),  # IEC 60062 RKM code 1K0, trailing zero dropped
         (470.0, "470"),  # plain below 1 kΩ
         (10.0, "10"),  # plain
-        (0.47, "R47"),  # IEC 60062 RKM code
-        (0.1, "R1"),  # IEC 60062 RKM code R10, trailing zero dropped
-        (0.025, "25m"),  # milli below 0.1 Ω
+        # below 1 Ω: IEC 60062 RKM with the leading zero the standard permits (0R47 for R47), so a
+        # code never starts with a letter and cannot read as a reference designator (R1)
+        (0.47, "0R47"),  # IEC 60062 RKM code R47, leading zero
+        (0.1, "0R1"),  # IEC 60062 RKM code R10, leading zero, trailing zero dropped
+        (0.022, "0R022"),  # IEC 60062 RKM rule (current-sense R022), leading zero
+        (0.025, "0R025"),  # IEC 60062 RKM rule, leading zero
         (1e6, "1M"),  # IEC 60062 RKM M
         (2.2e6, "2M2"),  # IEC 60062 RKM code
         (4.7e6, "4M7"),  # IEC 60062 RKM code
@@ -141,6 +144,7 @@ def test_to_code_round_trips_exactly(ohms):
     code = to_code(ohms)
     assert parse_resistance(code) == ohms
     assert "." not in code and sum(c.isalpha() for c in code) <= 1  # IEC 60062: one letter, no point
+    assert code[0].isdigit()  # never a letter first: 0R47, not R47 (IEC 60062 permits the leading zero)
 
 
 @pytest.mark.parametrize("bad", [0.0, -1.0, math.nan, math.inf])
@@ -177,6 +181,8 @@ def test_format_ohms(ohms, digits, text):
         ("+/-2%", 0.02),  # ASCII plus-minus
         ("50ppm", 5e-5),  # parts per million
         ("0%", 0.0),  # an ideal part
+        ("1e-1%", 0.001),  # exponent form, as resistances accept 1.5e3: 1e-1 % = 0.1 % (hand arithmetic)
+        ("2.5E1ppm", 2.5e-5),  # capital E; 25 ppm (hand arithmetic)
         # IEC 60062 tolerance letters (EN 60062:2005 colour table; Yageo, KOA datasheets)
         ("B", 0.001),  # IEC 60062 tolerance letter: ±0.1 %
         ("C", 0.0025),  # IEC 60062 tolerance letter: ±0.25 %
@@ -202,6 +208,9 @@ def test_parse_tolerance(text, fraction):
         ("L", "expected a tolerance"),  # L = 0.01 % in IEC 60062:2016 is unconfirmed (from memory), not accepted
         ("5%%", "expected a tolerance"),  # garbage
         ("", "expected a tolerance"),  # empty
+        ("1e-2", "add % or ppm"),  # exponent form is still a bare number
+        ("1e2%", "must be below 100 %"),  # 1e2 % = 100 %
+        ("5e%", "expected a tolerance"),  # exponent without digits
     ],
 )
 def test_parse_tolerance_rejects(text, fragment):
@@ -215,10 +224,32 @@ def test_parse_tolerance_rejects(text, fragment):
         ("0.1%", 0.001),  # percent
         ("50ppm", 5e-5),  # ppm
         ("1 PPM", 1e-6),  # unit case-insensitive
+        ("1e-5%", 1e-7),  # exponent form: 1e-5 % = 1e-5 / 100 = 1e-7 (hand arithmetic)
+        ("1E-5 %", 1e-7),  # capital E, spaced unit
+        ("5e1ppm", 5e-5),  # 5e1 ppm = 50 ppm
+        ("1.5e-1%", 0.0015),  # 0.15 % (hand arithmetic)
+        ("+1e+1ppm", 1e-5),  # signed exponent: 10 ppm
+        ("0e3%", 0.0),  # zero with an exponent is still an exact match
     ],
 )
 def test_parse_ratio(text, fraction):
     assert parse_ratio(text) == fraction
+
+
+@pytest.mark.parametrize(
+    "text, fragment",
+    [
+        ("1e-5", "add % or ppm"),  # a bare number in exponent form is as ambiguous as 0.001
+        ("1.5e3%", "must be below 100 %"),  # 1500 %
+        ("-1e-3%", "must be zero or more"),  # negative
+        ("1e%", "expected an accuracy"),  # exponent without digits
+        ("1e-5e2%", "expected an accuracy"),  # two exponents
+        ("e-5%", "expected an accuracy"),  # no mantissa
+    ],
+)
+def test_parse_ratio_rejects(text, fragment):
+    with pytest.raises(ValueParseError, match=fragment):
+        parse_ratio(text)
 
 
 def test_parse_ratio_has_no_letters():

@@ -19,9 +19,10 @@ datasheet notes).
 from __future__ import annotations
 
 import math
+import numbers
 from dataclasses import dataclass
 
-from netsynth.errors import InfeasibleError
+from netsynth.errors import ArgumentError
 
 #: °C; rated ambient temperature of IEC 60115-1, used by the datasheets above ("P70").
 RATED_AMBIENT_C = 70.0
@@ -33,6 +34,12 @@ DEFAULT_POWER_FACTOR = 0.5
 DEFAULT_VOLTAGE_FACTOR = 0.8
 #: °C; a bench at room temperature. Inside a warm enclosure, say so with --ambient.
 DEFAULT_AMBIENT_C = 25.0
+#: °C; absolute zero (0 K, SI Brochure 9th ed. §2.3.1: T/°C = T/K − 273.15). No ambient lies below it.
+ABSOLUTE_ZERO_C = -273.15
+#: °C; the ambient temperatures accepted: a practical range (common practice, no source) wide
+#: enough for any bench or enclosure; a value outside is far more likely a typo, or kelvin.
+MIN_AMBIENT_C = -100.0
+MAX_AMBIENT_C = 300.0
 #: V; above this the network or a part is treated as hazardous (the issue's threshold;
 #: PCB-spacing practice treats 60 V DC / 30 V AC as hazardous).
 CAUTION_VOLTS = 50.0
@@ -60,14 +67,19 @@ class OperatingPoint:
     def __post_init__(self) -> None:
         given = [(n, v) for n, v in (("volts", self.volts), ("amps", self.amps), ("watts", self.watts)) if v is not None]
         if len(given) != 1:
-            raise InfeasibleError("give exactly one of --volts, --amps or --watts for the operating point")
+            raise ArgumentError("give exactly one of volts, amps or watts for the operating point")
         name, value = given[0]
-        if not (value > 0 and math.isfinite(value)):
-            raise InfeasibleError(f"--{name} {value!r}: must be a finite value above zero")
-        if not (0 < self.duty <= 1):
-            raise InfeasibleError(f"--duty {self.duty!r}: the duty cycle is a fraction above 0 and at most 1 (100 %)")
-        if not (-100 <= self.ambient_c <= 300):
-            raise InfeasibleError(f"--ambient {self.ambient_c!r} °C: expected a temperature from -100 to 300 °C")
+        if not (_is_number(value) and value > 0 and math.isfinite(value)):
+            raise ArgumentError(f"{name}={value!r}: must be a finite value above zero")
+        if not (_is_number(self.duty) and 0 < self.duty <= 1):
+            raise ArgumentError(f"duty={self.duty!r}: the duty cycle is a fraction above 0 and at most 1 (100 %)")
+        if not _is_number(self.ambient_c) or math.isnan(self.ambient_c):
+            raise ArgumentError(f"ambient_c={self.ambient_c!r}: expected a temperature in °C (a number)")
+        if not self.ambient_c > ABSOLUTE_ZERO_C:
+            raise ArgumentError(f"ambient_c={self.ambient_c!r}: below absolute zero ({ABSOLUTE_ZERO_C:g} °C)")
+        if not (MIN_AMBIENT_C <= self.ambient_c <= MAX_AMBIENT_C):
+            raise ArgumentError(f"ambient_c={self.ambient_c!r}: expected an ambient temperature from "
+                                f"{MIN_AMBIENT_C:g} to {MAX_AMBIENT_C:g} °C")
 
     def volts_across(self, ohms: float) -> float:
         """Peak voltage across a network of ``ohms`` at this operating point (Ohm's law)."""
@@ -98,9 +110,14 @@ class Derating:
     voltage_factor: float = DEFAULT_VOLTAGE_FACTOR
 
     def __post_init__(self) -> None:
-        for name, f in (("--derate", self.power_factor), ("--volt-derate", self.voltage_factor)):
-            if not (0 < f <= 1):
-                raise InfeasibleError(f"{name} {f!r}: a derating factor is a fraction above 0 and at most 1")
+        for name, f in (("power_factor", self.power_factor), ("voltage_factor", self.voltage_factor)):
+            if not (_is_number(f) and 0 < f <= 1):
+                raise ArgumentError(f"{name}={f!r}: a derating factor is a fraction above 0 and at most 1")
+
+
+def _is_number(x: object) -> bool:
+    """A real number that is not a bool (``True`` is an int to Python, never a voltage here)."""
+    return isinstance(x, numbers.Real) and not isinstance(x, bool)
 
 
 def temperature_fraction(ambient_c: float, max_temp_c: float, rated_ambient_c: float = RATED_AMBIENT_C) -> float:

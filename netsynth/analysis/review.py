@@ -9,11 +9,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 from netsynth.analysis.conditions import CAUTION_VOLTS, NEAR_LIMIT, Derating, OperatingPoint
-from netsynth.analysis.stress import NetworkStress, network_stress, rating_items
+from netsynth.analysis.stress import NetworkStress, line_of, network_stress
 from netsynth.analysis.thermal import temperature_coefficient, value_at
 from netsynth.analysis.tolerance import MonteCarlo, ToleranceBand, monte_carlo, tolerance_band
 from netsynth.network import Network, parts_in_order, resistance
-from netsynth.stock import StockBin
 
 #: the caution shown wherever power nears a rating, voltages pass 50 V, or mains is involved
 SAFETY_NOTE = (
@@ -40,7 +39,7 @@ class Review:
     point: OperatingPoint | None
     cautions: tuple[str, ...]  #: safety cautions (burns, shock, mains)
     notes: tuple[str, ...]  #: advice that is not about safety (tolerance vs error)
-    not_in_bin: tuple[float, ...]  #: part values the bin does not hold (bin defaults assumed)
+    not_in_bin: tuple[float, ...]  #: values of parts tied to no stock line (bin defaults assumed)
 
     @property
     def ok(self) -> bool:
@@ -50,7 +49,6 @@ class Review:
 
 def review(
     net: Network,
-    stock: StockBin | None = None,
     point: OperatingPoint | None = None,
     derating: Derating = Derating(),
     target_ohms: float | None = None,
@@ -60,14 +58,14 @@ def review(
     seed: int = 1,
     stress: NetworkStress | None = None,
 ) -> Review:
-    """Analyse ``net`` built from ``stock`` at ``point``.
+    """Analyse ``net`` at ``point``; each part's tolerance, tcr and ratings come from its own stock line.
 
     ``spec`` is the builder's acceptance band (fraction) around ``target_ohms``
     (the nominal value when no target is given) for the Monte Carlo yield.
     ``stress``, when the caller already solved ``net`` at ``point``, is used as is.
     """
     parts = parts_in_order(net)
-    items = rating_items(stock, [p.ohms for p in parts])
+    items = [line_of(p) for p in parts]
     tolerances = [item.tolerance for item, _ in items]
     tcrs = [item.tcr_ppm for item, _ in items]
     value = resistance(net)
@@ -77,8 +75,8 @@ def review(
     tcr = temperature_coefficient(net, tcrs)
     at_temp = value_at(net, tcrs, temp_c) if temp_c is not None else None
     if stress is None and point is not None:
-        stress = network_stress(net, point, stock, derating)
-    missing = tuple(sorted({p.ohms for p, (_, held) in zip(parts, items) if not held})) if stock else ()
+        stress = network_stress(net, point, derating)
+    missing = tuple(sorted({p.ohms for p, (_, held) in zip(parts, items) if not held}))
     return Review(
         network=net,
         value_ohms=value,

@@ -9,15 +9,19 @@ The contract (stable; later work adds keys, never removes these)::
         {"parts": int, "expression": str, "value_ohms": float,
          "error": float,       # signed relative error, value / target - 1
          "verified_ohms": float, "proven": bool, "method": str,
-         "alternatives": [{"parts", "expression", "value_ohms", "error", "verified_ohms"}],
+         "components": [component, ...],   # one per part, in the order of "expression"
+         "alternatives": [{"parts", "expression", "value_ohms", "error", "verified_ohms", "components"}],
          "stress": [...],      # only with an operating point, one entry per part (below)
-         "headroom": float}    # only with an operating point
+         "headroom": float,    # only with an operating point: factor the drive may grow
+         "binding": {"factor", "part", "limit": "power"|"voltage", "ohms", "line"}}  # which part sets it
       ],
-      "best": {"parts", "expression", "value_ohms", "error", "verified_ohms"},
-      "pick_list": [{"ohms": float, "count": int, "location": str}],
+      "best": {"parts", "expression", "value_ohms", "error", "verified_ohms", "proven", "method", "components"},
+      "pick_list": [{"ohms", "count", "location", "line", "tolerance", "watts", "max_volts"}],  # one per stock line
       "operating_point": {...} | null, "derating": {...}, "prefer": str,
       "lower_bound": {"count", "by_power", "by_voltage", "text"} | null,
       "value_parts": int,      # the fewest parts that can reach the target from the bin's values
+      "reach": {"parts": int | null, "low_ohms", "high_ohms", "text"},  # parts null: the whole bin cannot
+      "within_met": bool | null,  # with "within": whether some row lands inside it
       "part_limit": int,       # the largest part count searched
       "exhaustive_parts": int, # counts up to this were searched exhaustively; above it, regular arrays
       "review": {review of "best", below},
@@ -26,9 +30,17 @@ The contract (stable; later work adds keys, never removes these)::
       "seconds": float
     }
 
+    component: {"ohms", "line", "location", "tolerance", "watts", "max_volts", "tcr_ppm"}
+               (the stock line the part is: "line" is the bin file's line number of its first row,
+                or its position in a kit's listing; null for a part the bin does not hold)
+
     stress entry: {"value_ohms", "volts", "amps", "watts", "limit_watts", "limit_volts",
-                   "headroom", "in_bin", "location"}
-                   (volts and amps peak; watts average; limits derated)
+                   "power_use", "voltage_use",   # shares of the derated limits used (1.0 = at the limit)
+                   "headroom", "binding", "in_bin", "line", "location"}
+                   (volts and amps peak; watts average; limits derated; headroom is the factor
+                    the drive may grow before this part reaches its "binding" limit)
+
+    error (any command, with --json): {"error": {"kind": str, "message": str}} and a non-zero exit
 
     check:
     {"expression", "value_ohms", "verified_ohms", "worst_case_ohms": [low, high],
@@ -46,8 +58,9 @@ from typing import Any
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
 from netsynth.analysis.review import Review
-from netsynth.analysis.stress import NetworkStress
+from netsynth.analysis.stress import NetworkStress, line_of
 from netsynth.design import Candidate, Design
+from netsynth.network import Part
 from netsynth.nodal import VERIFY_RTOL
 
 VERIFICATION = {"method": "nodal analysis (conductance matrix solve)", "rtol": VERIFY_RTOL}
@@ -57,14 +70,33 @@ def _finite(x: float) -> float | None:
     return x if math.isfinite(x) else None
 
 
-def candidate_dict(c: Candidate) -> dict[str, Any]:
+def component_dict(part: Part) -> dict[str, Any]:
+    """One part and the stock line it is taken from (bin defaults, ``line`` null, when none)."""
+    line, in_bin = line_of(part)
     return {
+        "ohms": part.ohms,
+        "line": line.line if in_bin else None,
+        "location": line.location,
+        "tolerance": line.tolerance,
+        "watts": line.power_rating_w,
+        "max_volts": line.max_volts,
+        "tcr_ppm": line.tcr_ppm,
+    }
+
+
+def candidate_dict(c: Candidate, proven: bool | None = None, method: str | None = None) -> dict[str, Any]:
+    out: dict[str, Any] = {
         "parts": c.parts,
         "expression": c.expression,
         "value_ohms": c.value_ohms,
         "error": c.error,
         "verified_ohms": c.verified_ohms,
     }
+    if proven is not None:
+        out["proven"] = proven
+        out["method"] = method
+    out["components"] = [component_dict(p) for p in c.components]
+    return out
 
 
 def stress_list(s: NetworkStress) -> list[dict[str, Any]]:
@@ -76,12 +108,23 @@ def stress_list(s: NetworkStress) -> list[dict[str, Any]]:
             "watts": p.watts,
             "limit_watts": p.limit_watts,
             "limit_volts": p.limit_volts,
+            "power_use": _finite(p.power_use),
+            "voltage_use": p.voltage_use,
             "headroom": _finite(p.headroom),
+            "binding": p.binding,
             "in_bin": p.in_bin,
-            "location": p.item.location,
+            "line": p.line.line if p.in_bin else None,
+            "location": p.line.location,
         }
         for p in s.parts
     ]
+
+
+def headroom_dict(s: NetworkStress) -> dict[str, Any]:
+    """The network's headroom (factor on the drive) and the part and limit that set it."""
+    i, limit = s.binding
+    return {"factor": _finite(s.headroom), "part": i, "limit": limit, "ohms": s.parts[i].ohms,
+            "line": s.parts[i].line.line if s.parts[i].in_bin else None}
 
 
 def point_dict(point: OperatingPoint | None) -> dict[str, Any] | None:
@@ -118,12 +161,14 @@ def design_dict(d: Design) -> dict[str, Any]:
     """The JSON-ready dict of the ``make`` contract above."""
     frontier = []
     for e in d.frontier:
-        row = {**candidate_dict(e.best), "proven": e.proven, "method": e.method,
+        row = {**candidate_dict(e.best, e.proven, e.method),
                "alternatives": [candidate_dict(a) for a in e.alternatives]}
         if e.stress is not None:
             row["stress"] = stress_list(e.stress)
             row["headroom"] = _finite(e.stress.headroom)
+            row["binding"] = headroom_dict(e.stress)
         frontier.append(row)
+    chosen = next(e for e in d.frontier if e.best is d.best)
     b = d.bound
     return {
         "target_ohms": d.target_ohms,
@@ -131,14 +176,19 @@ def design_dict(d: Design) -> dict[str, Any]:
         "max_parts": d.max_parts,
         "within": d.within,
         "frontier": frontier,
-        "best": candidate_dict(d.best),
-        "pick_list": [{"ohms": p.ohms, "count": p.count, "location": p.location} for p in d.pick_list],
+        "best": candidate_dict(d.best, chosen.proven, chosen.method),
+        "pick_list": [{"ohms": p.ohms, "count": p.count, "location": p.location, "line": p.line.line,
+                       "tolerance": p.line.tolerance, "watts": p.line.power_rating_w,
+                       "max_volts": p.line.max_volts} for p in d.pick_list],
         "operating_point": point_dict(d.point),
         "derating": derating_dict(d.derating),
         "prefer": d.prefer,
         "lower_bound": None if b is None
         else {"count": b.count, "by_power": b.by_power, "by_voltage": b.by_voltage, "text": b.explain()},
         "value_parts": d.value_parts,
+        "reach": {"parts": d.reach.parts, "low_ohms": d.reach.low_ohms if d.reach.low_ohms > 0 else None,
+                  "high_ohms": _finite(d.reach.high_ohms), "text": d.reach.explain()},
+        "within_met": d.within_met,
         "part_limit": d.part_limit,
         "exhaustive_parts": d.exhaustive_parts,
         "review": review_dict(d.review),
@@ -161,7 +211,9 @@ def check_dict(c: Candidate, r: Review) -> dict[str, Any]:
         "status": "ok" if r.ok else "over_limit",
         "verification": VERIFICATION,
     }
+    out["components"] = [component_dict(p) for p in c.components]
     if r.stress is not None:
         out["stress"] = stress_list(r.stress)
         out["headroom"] = _finite(r.stress.headroom)
+        out["binding"] = headroom_dict(r.stress)
     return out

@@ -34,7 +34,11 @@ def _pct(error: float) -> str:
 
 
 def _headroom(h: float) -> str:
-    return "∞" if math.isinf(h) else f"{h:.2f}×"
+    return "∞" if math.isinf(h) else f"{h:.3g}×"
+
+
+def _share(use: float) -> str:
+    return "∞" if math.isinf(use) else f"{use * 100:.3g} %"
 
 
 def table(rows: list[tuple[str, ...]], align: str) -> list[str]:
@@ -75,8 +79,14 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
             f"Exhaustive search up to {d.exhaustive_parts} parts; {span} parts, regular arrays "
             "(listed only where they improve on fewer parts)"
         )
-    if d.value_parts > 1:
-        out.append(f"Reaching the target takes at least {d.value_parts} parts from this bin's values")
+    reach = d.reach
+    if reach.parts is None:
+        out.append("Out of reach: " + reach.explain())
+    elif reach.parts > d.part_limit:
+        out.append(f"Out of reach with {d.part_limit} parts: {reach.explain()}; ask for --max-parts {reach.parts} "
+                   "or more to reach it")
+    elif reach.parts > 1:
+        out.append("Reach: " + reach.explain())
     out.append("")
     stressed = d.point is not None
     head = ("parts", "network", "value", "error %", "ppm") + (("headroom",) if stressed else ()) + ("proof",)
@@ -102,8 +112,10 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
     out += ["", f"Recommended ({d.prefer} first): {shown_as}  =  {format_ohms(b.value_ohms, 6)}  ({off})", ""]
     out.append(_drawing(b))
     out.append("")
-    picks = ", ".join(f"{p.count} × {to_code(p.ohms)}" + (f" ({p.location})" if p.location else "") for p in d.pick_list)
-    out.append(f"Take from the bin: {picks}")
+    if d.within is not None and d.within_met is False:
+        out.append(f"Not within ±{format_error(d.within).lstrip('+')}: no network of up to {d.part_limit} parts "
+                   "from this bin lands inside it; the closest is shown")
+    out += pick_lines(d.pick_list)
     out.append(_verified(b))
     if all(e.proven for e in d.frontier):
         out.append("Proven best: no network of that many parts from this bin lands closer (exhaustive search).")
@@ -114,6 +126,20 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
         )
     out += [""] + review_lines(d.review)
     return "\n".join(out)
+
+
+def _watts_text(w: float) -> str:
+    return {0.125: "⅛ W", 0.25: "¼ W", 0.5: "½ W"}.get(w, f"{w:g} W")
+
+
+def pick_lines(picks) -> list[str]:
+    """The pick list: one line per stock line, with its ratings, location and bin line number."""
+    rows = [
+        (f"{p.count} ×", to_code(p.ohms), f"±{p.line.tolerance * 100:g} %", _watts_text(p.line.power_rating_w),
+         f"{p.line.max_volts:g} V", p.location or "-", f"line {p.line.line}")
+        for p in picks
+    ]
+    return ["Take from the bin:"] + ["  " + r for r in table(rows, "rllrrll")] if rows else []
 
 
 def _drawing(c: Candidate) -> str:
@@ -156,18 +182,27 @@ def review_lines(r: Review) -> list[str]:
             "",
             f"At {r.point.describe()}: {s.volts:.4g} V, {s.amps:.4g} A, {s.watts:.4g} W in the network",
         ]
-        rows = [("parts", "value", "volts", "amps", "watts", "limit W", "limit V", "headroom", "")]
+        i, limit = s.binding
+        drive = "voltage" if r.point.volts is not None else "current" if r.point.amps is not None else "power"
+        out.append(f"Headroom: the {drive} may grow {_headroom(s.headroom)} before a part reaches a limit "
+                   f"({limit} of {to_code(s.parts[i].ohms)}" + (f" at {s.parts[i].line.location}" if
+                                                               s.parts[i].line.location else "") + ")")
+        rows = [("parts", "value", "rating", "volts", "amps", "watts", "limit W", "limit V", "power", "voltage",
+                 "headroom", "")]
         # parts under identical stress (as printed) share one row
         groups: dict[tuple[str, ...], int] = {}
         for p in s.parts:
             cells = (
-                to_code(p.ohms), f"{p.volts:.4g}", f"{p.amps:.4g}", f"{p.watts:.4g}",
-                f"{p.limit_watts:.4g}", f"{p.limit_volts:.4g}", _headroom(p.headroom),
-                "OVER LIMIT" if not p.ok else "",
+                to_code(p.ohms), _watts_text(p.line.power_rating_w) + ("" if p.in_bin else "?"),
+                f"{p.volts:.4g}", f"{p.amps:.4g}", f"{p.watts:.4g}",
+                f"{p.limit_watts:.4g}", f"{p.limit_volts:.4g}", _share(p.power_use), _share(p.voltage_use),
+                _headroom(p.headroom) + f" {p.binding[0]}", "OVER LIMIT" if not p.ok else "",
             )
             groups[cells] = groups.get(cells, 0) + 1
         rows += [(f"{n} ×",) + cells for cells, n in groups.items()]
-        out += table(rows, "rlrrrrrrl")
+        out += table(rows, "rllrrrrrrrrl")
+        out.append("(power, voltage: share of the part's derated limit used; headroom: factor on the drive, "
+                   "p/v = the limit it reaches first)")
     for c in r.cautions:
         out.append(f"Caution: {c}")
     for n in r.notes:

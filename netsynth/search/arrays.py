@@ -67,6 +67,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from netsynth.analysis.conditions import Derating, OperatingPoint, limit_volts, limit_watts
+from netsynth.analysis.stress import drive_exponents
 from netsynth.errors import InfeasibleError, ValueParseError
 from netsynth.network import Network, parallel, resistance, series
 from netsynth.search.exact import Found
@@ -244,11 +245,17 @@ def _volts_at(point: OperatingPoint, ohms: np.ndarray) -> np.ndarray:
     return np.sqrt(point.watts * ohms)
 
 
-def _use(watts: np.ndarray, volts: np.ndarray, limit_w: np.ndarray, limit_v: np.ndarray) -> np.ndarray:
-    """max(watts / limit_w, volts / limit_v): 1.0 means at a limit (∞ where a limit is zero)."""
+def _use(point: OperatingPoint, watts: np.ndarray, volts: np.ndarray, limit_w: np.ndarray,
+         limit_v: np.ndarray) -> np.ndarray:
+    """1 / headroom in drive units (see :mod:`netsynth.analysis.stress`): 1.0 means at a limit.
+
+    max((watts/limit_w)^(1/a), (volts/limit_v)^(1/b)) where part power grows as drive^a and part
+    voltage as drive^b (∞ where a power limit is zero).
+    """
+    a, b = drive_exponents(point)
     with np.errstate(divide="ignore", invalid="ignore"):
         use_w = np.where(limit_w > 0, watts / np.where(limit_w > 0, limit_w, 1.0), np.inf)
-    return np.maximum(use_w, volts / limit_v)
+    return np.maximum(use_w ** (1.0 / a), (volts / limit_v) ** (1.0 / b))
 
 
 # --------------------------------------------------------------------- search
@@ -260,7 +267,7 @@ class ArrayDesign:
 
     found: Found
     family: str  #: one of :data:`FAMILIES`
-    headroom: float  #: min over parts of min(limit_watts/watts, limit_volts/volts); ≥ 1 is within limits
+    headroom: float  #: factor the drive may grow before a part reaches a limit; ≥ 1 is within limits
 
 
 @dataclass(frozen=True, slots=True)
@@ -283,6 +290,7 @@ def search_arrays(
     derating: Derating,
     max_parts: int,
     within: float | None = None,
+    min_parts: int = 1,
 ) -> list[ArrayDesign]:
     """For each part count 1..max_parts, the closest regular array whose parts all stay within limits.
 
@@ -301,6 +309,8 @@ def search_arrays(
     within : float or None
         A relative error (fraction). When given, the search stops after the first part count
         whose best array is within it: the caller wants the fewest parts.
+    min_parts : int
+        The smallest part count evaluated (counts below a proven floor need no evaluation).
 
     Returns
     -------
@@ -342,7 +352,7 @@ def search_arrays(
     if not np.any(lines.limit_w > 0):
         return []
     out: list[ArrayDesign] = []
-    for n in range(1, max_parts + 1):
+    for n in range(max(1, min_parts), max_parts + 1):
         # the uniform family is exhaustive and cheap; its error seeds the two-value walks
         bests = [b for b in (_uniform(n, target, lines, point),) if b is not None]
         for strings in (True, False):
@@ -376,7 +386,7 @@ def _uniform(n: int, target: float, lines: _Lines, point: OperatingPoint) -> _Be
     value = r * s / p
     volts = _volts_at(point, value)
     watts = volts * volts / value * point.duty / n
-    use = _use(watts, volts / s, lines.limit_w[idx], lines.limit_v[idx])
+    use = _use(point, watts, volts / s, lines.limit_w[idx], lines.limit_v[idx])
     ok = use <= 1.0 + STRESS_SLACK
     if not np.any(ok):
         return None
@@ -447,8 +457,8 @@ def _two_value(
             volts = _volts_at(point, value)
             v1 = v2 = volts / s_  # each group's voltage
             w1, w2 = point.duty * v1 * v1 / r1_, point.duty * v2 * v2 / r2_
-        use = np.maximum(_use(w1, v1, lines.limit_w[a], lines.limit_v[a]),
-                         _use(w2, v2, lines.limit_w[b], lines.limit_v[b]))
+        use = np.maximum(_use(point, w1, v1, lines.limit_w[a], lines.limit_v[a]),
+                         _use(point, w2, v2, lines.limit_w[b], lines.limit_v[b]))
         ok = (use <= 1.0 + STRESS_SLACK) & (lines.count[b] >= m2[rows])
         return np.abs(value / target - 1.0), use, ok
 

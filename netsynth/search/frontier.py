@@ -22,15 +22,17 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Literal, get_args
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
-from netsynth.analysis.stress import network_stress
-from netsynth.errors import InfeasibleError
+from netsynth.analysis.lines import assign_lines, value_pool
+from netsynth.analysis.stress import NetworkStress, network_stress
+from netsynth.errors import ArgumentError, InfeasibleError
 from netsynth.search.arrays import PartBound, part_lower_bound, search_arrays
 from netsynth.search.exact import ExactSearch, Found
 from netsynth.stock import StockBin
+from netsynth.values import format_ohms
 
 Preference = Literal["error", "parts", "headroom"]
 PREFERENCES: tuple[str, ...] = get_args(Preference)
@@ -61,45 +63,103 @@ DEFAULT_ACCEPT = 0.01
 
 @dataclass(frozen=True, slots=True)
 class FrontierRow:
-    """The best acceptable network of exactly ``parts`` parts, with runners-up."""
+    """The best acceptable network of exactly ``parts`` parts, with runners-up.
+
+    Every network here has its parts tied to stock lines (:mod:`netsynth.analysis.lines`).
+    """
 
     parts: int
     best: Found
     alternatives: tuple[Found, ...]
     proven: bool  #: True: no network of this many parts from the bin does better
     method: str  #: "exhaustive" or the array family that produced it
-    headroom: float | None = None  #: smallest part headroom at the operating point
+    stress: NetworkStress | None = None  #: per-part stress of ``best`` at the operating point
+
+    @property
+    def headroom(self) -> float | None:
+        """The factor the drive may grow before a part of ``best`` reaches a limit."""
+        return self.stress.headroom if self.stress is not None else None
+
+
+@dataclass(frozen=True, slots=True)
+class Reach:
+    """How many parts the bin needs to reach the target at all, and what the whole bin can make.
+
+    Above the bin's largest value only series parts help: n parts give at most the sum of
+    the n largest values the bin holds; below the smallest value only parallel parts help:
+    n parts give at least 1 / (sum of the n largest conductances). Both follow from
+    Rayleigh's monotonicity law (a series string is the largest, a parallel bank the
+    smallest network of a given set of parts).
+    """
+
+    target_ohms: float
+    parts: int | None  #: the fewest parts whose networks reach the target; None: the whole bin cannot
+    low_ohms: float  #: the smallest value the whole bin makes (every part in parallel); 0 when unlimited
+    high_ohms: float  #: the largest value (every part in series); inf when unlimited
+    direction: int = 0  #: -1 below the bin's smallest value, +1 above its largest, 0 between
+
+    def explain(self) -> str:
+        """One line for the report."""
+        if self.parts is None:
+            return (f"all the bin's parts together make {format_ohms(self.low_ohms, 4)} in parallel and "
+                    f"{format_ohms(self.high_ohms, 4)} in series, so no network of them reaches "
+                    f"{format_ohms(self.target_ohms, 6)}")
+        how, side = ("in parallel", "above") if self.direction < 0 else ("in series", "below")
+        return (f"networks reach {format_ohms(self.target_ohms, 6)} from {self.parts} parts on ({how}); "
+                f"fewer parts stay {side} it")
+
+
+def reach_of(target_ohms: float, stock: StockBin) -> Reach:
+    """The fewest parts that reach ``target_ohms`` from ``stock`` (see :class:`Reach`)."""
+    pool = [(v, c) for v, c in zip(*value_pool(stock))]
+    if not pool:
+        raise InfeasibleError("every line of the bin has a count of zero; add parts to the bin")
+    unlimited = any(c is None for _, c in pool)
+    high = math.inf if unlimited else sum(v * c for v, c in pool)
+    low = 0.0 if unlimited else 1.0 / sum(c / v for v, c in pool)
+    smallest, largest = min(v for v, _ in pool), max(v for v, _ in pool)
+    if smallest <= target_ohms <= largest:
+        return Reach(target_ohms, 1, low, high, 0)
+    if target_ohms > largest:  # series: the largest values first
+        order = sorted(pool, key=lambda vc: -vc[0])
+        need = _fewest([v for v, _ in order], [c for _, c in order], target_ohms)
+        return Reach(target_ohms, need, low, high, +1)
+    order = sorted(pool, key=lambda vc: vc[0])  # parallel: the largest conductances first
+    need = _fewest([1.0 / v for v, _ in order], [c for _, c in order], 1.0 / target_ohms)
+    return Reach(target_ohms, need, low, high, -1)
+
+
+def _fewest(sizes: list[float], counts: list[int | None], total: float) -> int | None:
+    """The fewest items (largest first, each size up to its count) whose sizes add up to ``total``."""
+    acc, n = 0.0, 0
+    for size, count in zip(sizes, counts):
+        # a hair of slack: 10 × 10 Ω computed as 99.99999999999999 still reaches 100 Ω
+        k = max(1, math.ceil((total - acc) / size * (1 - 1e-12)))
+        if count is None or k <= count:
+            return n + k
+        acc += size * count
+        n += count
+    return None
 
 
 @dataclass(frozen=True, slots=True)
 class Frontier:
     rows: tuple[FrontierRow, ...]
     bound: PartBound | None  #: lower bound on the part count from power and voltage (with an operating point)
-    value_parts: int = 1  #: the fewest parts that can reach the target from this bin's values
+    reach: Reach  #: how many parts reach the target at all
     limit: int = DEFAULT_MAX_PARTS  #: the largest part count searched
     exhaustive_parts: int = DEFAULT_MAX_PARTS  #: part counts up to this were searched exhaustively
+    within_met: bool | None = None  #: with ``within``: whether some row lands inside it
+
+    @property
+    def value_parts(self) -> int:
+        """The fewest parts that reach the target (the bin's total when it cannot)."""
+        return self.reach.parts if self.reach.parts is not None else self.limit
 
 
 def default_part_limit(bound: int) -> int:
     """How far the search goes without --max-parts: twice the bound plus slack (common practice, no source)."""
     return min(MAX_ARRAY_PARTS, max(DEFAULT_MAX_PARTS, 2 * bound + 8))
-
-
-def parts_for_value(target_ohms: float, stock: StockBin) -> int:
-    """The fewest parts that can reach the target at all: below the smallest value only
-    parallel parts help (n parts of R give R/n at best), above the largest only series ones."""
-    low, high = min(stock.values), max(stock.values)
-    if target_ohms < low:
-        return math.ceil(low / target_ohms * (1 - 1e-12))
-    if target_ohms > high:
-        return math.ceil(target_ohms / high * (1 - 1e-12))
-    return 1
-
-
-def _value_text(target_ohms: float, stock: StockBin, n: int) -> str:
-    side = f"the smallest value, {min(stock.values):g} Ω, in parallel" if target_ohms < min(stock.values) \
-        else f"the largest value, {max(stock.values):g} Ω, in series"
-    return f"reaching {target_ohms:g} Ω takes at least {n} parts ({side})"
 
 
 def search_frontier(
@@ -114,110 +174,139 @@ def search_frontier(
 ) -> Frontier:
     """Best acceptable network for each part count.
 
-    ``max_parts`` None means 4 without an operating point, or as far as the physics
-    (power, voltage and the target's distance from the bin's values) needs.
-    With ``within`` (a fraction, e.g. 0.001 for ±0.1 %), the search stops at the
-    first part count whose best network lands within it.
+    Without an operating point there is a row for every part count from 1 to the limit,
+    each the best network of exactly that many parts, proven by exhaustion where the
+    exhaustive search reaches (whether or not it comes near the target). ``max_parts``
+    None means 4, or, when the target needs more parts to reach, as many as that needs.
+    With ``within`` (a fraction, e.g. 0.001 for ±0.1 %), the search stops at the first part
+    count whose best network lands within it; if none does, every row is kept and
+    ``within_met`` is False.
 
     Raises
     ------
     InfeasibleError
-        If no network meets the limits: says which limit and what to relax.
+        Only with an operating point, when no network of the parts searched keeps every
+        part within its limits: says which limit and what to relax.
     """
     if not (target_ohms > 0 and math.isfinite(target_ohms)):
-        raise InfeasibleError(f"target {target_ohms!r} Ω: a target must be a finite resistance above zero")
-    if max_parts is not None and max_parts < 1:
-        raise InfeasibleError(f"--max-parts {max_parts}: at least one part is needed")
+        raise ArgumentError(f"target_ohms={target_ohms!r}: a target must be a finite resistance above zero")
+    if max_parts is not None and (isinstance(max_parts, bool) or not isinstance(max_parts, int) or max_parts < 1):
+        raise ArgumentError(f"max_parts={max_parts!r}: at least one part is needed")
     if within is not None and not within >= 0:
-        raise InfeasibleError(f"accuracy {within!r}: must be zero or more")
-    needed = parts_for_value(target_ohms, stock)
+        raise ArgumentError(f"within={within!r}: an accuracy is a fraction of 0 or more")
+    reach = reach_of(target_ohms, stock)
     bound = part_lower_bound(target_ohms, stock, point, derating) if point is not None else None
-    floor = max(needed, bound.count if bound else 1)
-    why = bound.explain() if bound and bound.count >= needed else _value_text(target_ohms, stock, needed)
-    if max_parts is not None and max_parts < floor:
-        raise InfeasibleError(f"--max-parts {max_parts} is too small: {why}")
-    if floor > MAX_ARRAY_PARTS:
-        raise InfeasibleError(f"{why}; netsynth searches up to {MAX_ARRAY_PARTS} parts: use other parts")
+    floor = bound.count if bound else 1
     if max_parts is not None:
         limit = max_parts
-    elif point is None and needed <= DEFAULT_MAX_PARTS:
+    elif reach.parts is None:  # the closest networks use the whole bin
+        limit = max(DEFAULT_MAX_PARTS, floor, _total_parts(stock))
+    elif point is None and reach.parts <= DEFAULT_MAX_PARTS:
         limit = DEFAULT_MAX_PARTS
     else:
-        limit = default_part_limit(floor)
+        limit = default_part_limit(max(floor, reach.parts))
+    limit = min(limit, MAX_ARRAY_PARTS, _total_parts(stock))
+    if bound is not None and floor > limit:
+        why = bound.explain()
+        raise InfeasibleError(
+            f"no network of at most {limit} parts keeps every part within its derated limits ({why}); "
+            + (f"allow {floor} parts or more" if floor <= MAX_ARRAY_PARTS and
+               floor <= _total_parts(stock) else "use higher-rated parts")
+            + ", or relax the derating"
+        )
     cap = EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS_MAX if len(stock) <= SMALL_BIN else EXACT_PARTS
-    exact_k = min(limit, cap)
-    rows: list[FrontierRow] = []
-    if floor <= exact_k:
-        engine, exact_k = _exact_engine(stock, exact_k)
-        rows = _exact_rows(engine, target_ohms, stock, floor, exact_k, within, alternatives, on_progress, point, derating)
-    else:
-        exact_k = 0  # no network small enough for the exhaustive search can meet the target
+    engine, exact_k = _exact_engine(stock, min(limit, cap))
+    rows = _exact_rows(engine, target_ohms, stock, exact_k, within, alternatives, on_progress, point, derating)
     reached = rows and within is not None and abs(rows[-1].best.error) <= within
     if limit > exact_k and not reached:
         if on_progress:
             on_progress(f"searching regular arrays of up to {limit} parts")
         screen = point if point is not None else NEGLIGIBLE_DRIVE
-        for design in search_arrays(target_ohms, stock, screen, derating, limit, within):
-            n = design.found.parts
-            if n <= exact_k or n < floor:
-                continue  # covered exhaustively, or too few parts to be near the target at this drive
-            headroom = design.headroom if point is not None else None
-            rows.append(FrontierRow(n, design.found, (), proven=False, method=design.family, headroom=headroom))
-    if point is not None:
-        rows = _pareto(rows)
-    else:  # every exhaustive row stays (one per part count); array rows only where they improve
-        exhaustive = [r for r in rows if r.parts <= exact_k]
-        rows = exhaustive + [r for r in _pareto(rows) if r.parts > exact_k]
+        first = max(exact_k + 1, floor)
+        for design in search_arrays(target_ohms, stock, screen, derating, limit, within, min_parts=first):
+            row = _array_row(design, stock, point, derating)
+            if row is not None:
+                rows.append(row)
+    # every exhaustive row stays (one per part count); array rows only where they improve on fewer parts
+    exhaustive = [r for r in rows if r.method == "exhaustive"]
+    rows = exhaustive + [r for r in _pareto(rows) if r.method != "exhaustive"]
+    within_met = None
     if within is not None:
+        within_met = False
         for i, row in enumerate(rows):
             if abs(row.best.error) <= within:
-                rows = rows[: i + 1]
+                rows, within_met = rows[: i + 1], True
                 break
     if not rows:
-        stress = f" keeps every part within its derated limits ({bound.explain()}; the array search uses at most " \
-            "two values, so stock counts can limit it)" if bound else ""
         raise InfeasibleError(
-            f"no network of {floor} to {limit} parts{stress}; raise --max-parts"
-            + (", use higher-rated parts, or relax --derate" if bound else "")
+            f"no network of up to {limit} parts keeps every part within its derated limits ({bound.explain()}; "
+            "the array search uses at most two values, so stock counts can limit it); allow more parts, use "
+            "higher-rated parts, or relax the derating"
         )
-    _check_within(rows, within, max_parts)
-    return Frontier(tuple(rows), bound, needed, limit, exact_k)
+    return Frontier(tuple(rows), bound, reach, limit, exact_k, within_met)
+
+
+def _total_parts(stock: StockBin) -> int:
+    """How many parts the bin holds in all (a large number when some line is unlimited)."""
+    counts = [item.count for item in stock.items]
+    return MAX_ARRAY_PARTS if any(c is None for c in counts) else max(1, sum(counts))
 
 
 def _exact_engine(stock: StockBin, k: int) -> tuple[ExactSearch, int]:
-    """The exhaustive engine for up to k parts, or for fewer when k would take too long on this bin."""
+    """The exhaustive engine over the bin's distinct values for up to k parts, or fewer when k would take too long."""
+    values, counts = value_pool(stock)
     while True:
         try:
-            return ExactSearch(stock.values, stock.counts, k), k
+            return ExactSearch(values, counts, k), k
         except InfeasibleError:
-            if k <= EXACT_PARTS:
+            if k <= 1:
                 raise
-            k = max(EXACT_PARTS, k - 1)
+            k -= 1
 
 
-def _exact_rows(engine, target, stock, first, k, within, alternatives, on_progress, point, derating) -> list[FrontierRow]:
-    """Exhaustive rows for first..k parts; with an operating point, screened for stress."""
+def _tied(found: Found, stock: StockBin, point, derating) -> tuple[Found, NetworkStress | None] | None:
+    """The value network of ``found`` with its parts tied to stock lines, and its stress; None if no
+    assignment of lines keeps every part within its limits."""
+    assigned = assign_lines(found.network, stock, point, derating)
+    if assigned is None:
+        return None
+    if point is None:
+        return replace(found, network=assigned.network), None
+    stress = network_stress(assigned.network, point, derating)
+    if stress.violations:
+        return None
+    return replace(found, network=assigned.network), stress
+
+
+def _exact_rows(engine, target, stock, k, within, alternatives, on_progress, point, derating) -> list[FrontierRow]:
+    """Exhaustive rows for 1..k parts; with an operating point, screened for stress."""
     rows: list[FrontierRow] = []
-    for n in range(first, k + 1):
+    for n in range(1, k + 1):
         _say(on_progress, n)
-        if point is None:
-            found = engine.best(n, target, alternatives)
-            if found:
-                rows.append(FrontierRow(n, found[0], tuple(found[1:]), proven=True, method="exhaustive"))
-        else:
-            found = engine.best(n, target, max(STRESS_CANDIDATES, alternatives))
-            passing = []
-            for i, f in enumerate(found):
-                stress = network_stress(f.network, point, stock, derating)
-                if not stress.violations:
-                    passing.append((i, f, stress.headroom))
-            if passing:
-                first_ok, best, headroom = passing[0]
-                alts = tuple(f for _, f, _ in passing[1 : alternatives + 1])
-                rows.append(FrontierRow(n, best, alts, proven=first_ok == 0, method="exhaustive", headroom=headroom))
-        if rows and rows[-1].parts == n and within is not None and abs(rows[-1].best.error) <= within:
-            break
+        wanted = alternatives if point is None else max(STRESS_CANDIDATES, alternatives)
+        found = engine.best(n, target, wanted)
+        passing = []
+        for i, f in enumerate(found):
+            tied = _tied(f, stock, point, derating)
+            if tied is not None:
+                passing.append((i, *tied))
+                if len(passing) > alternatives:
+                    break
+        if passing:
+            first_ok, best, stress = passing[0]
+            alts = tuple(f for _, f, _ in passing[1 : alternatives + 1])
+            rows.append(FrontierRow(n, best, alts, proven=first_ok == 0, method="exhaustive", stress=stress))
+            if within is not None and abs(best.error) <= within:
+                break
     return rows
+
+
+def _array_row(design, stock, point, derating) -> FrontierRow | None:
+    tied = _tied(design.found, stock, point, derating)
+    if tied is None:
+        return None
+    found, stress = tied
+    return FrontierRow(found.parts, found, (), proven=False, method=design.family, stress=stress)
 
 
 def _pareto(rows: list[FrontierRow]) -> list[FrontierRow]:
@@ -235,17 +324,6 @@ def _dominates(fewer: FrontierRow, more: FrontierRow) -> bool:
     if fewer.headroom is None or more.headroom is None:
         return no_worse
     return no_worse and more.headroom < HEADROOM_STEP * fewer.headroom
-
-
-def _check_within(rows, within, max_parts) -> None:
-    if within is None or abs(rows[-1].best.error) <= within:
-        return
-    best = min(rows, key=lambda r: abs(r.best.error))
-    limit = f"at most {max_parts} parts" if max_parts else "the parts searched"
-    raise InfeasibleError(
-        f"no network of {limit} lands within ±{within:.4g} (relative) of the target; "
-        f"the best has {best.parts} parts at {best.best.error:+.3g}; raise --max-parts or loosen --within"
-    )
 
 
 def pick(rows: tuple[FrontierRow, ...], prefer: Preference = "error", within: float | None = None) -> FrontierRow:

@@ -1,8 +1,9 @@
 """Bin files: read a stock bin from CSV (:func:`load_bin`) and write one back (:func:`save_bin`).
 
 Both are re-exported by :mod:`netsynth.stock`, the public home of the bin API; the data types
-(:class:`~netsynth.stock.StockItem`, :class:`~netsynth.stock.StockBin`), the defaults and the
-merge rule live there.
+(:class:`~netsynth.stock.items.StockItem`, :class:`~netsynth.stock.items.StockBin`), the
+defaults and the merge rule live in :mod:`netsynth.stock.items`, the only module of the
+package this one imports.
 
 Map of the module
 -----------------
@@ -44,6 +45,10 @@ note        free text
   note and extra columns) keep each distinct non-blank text, joined with ``"; "`` in file
   order.  Rows with the same value but different ratings stay separate items: they are
   different parts.
+* Each item remembers where it came from: ``StockItem.line`` is the file's line number
+  (1-based, counting every physical line, comments and blank lines included) of the first row
+  merged into it (for a row whose quoted cell spans lines, the line the row starts on).  It is
+  not a column: ``save_bin`` does not write it, and a saved file numbers its own lines.
 * ``save_bin`` writes every column of :data:`~netsynth.stock.COLUMNS` except ``max_temp``,
   which it writes only when some line differs from the default (155 °C); a bin that never
   used the column saves exactly as before the column existed.
@@ -55,10 +60,6 @@ Every problem raises :class:`netsynth.errors.StockError` with one line naming th
 line number and the field, e.g.
 ``bins/shop.csv, line 7, field 'qty': cannot read 'ten': expected a whole number of parts, or
 blank for as many as needed``.
-
-Import order: this module imports :mod:`netsynth.stock` at its top, and ``stock`` imports
-this module at its end.  Importing either one first works, because the package
-``netsynth/__init__.py`` always loads ``stock`` before anything reaches ``binfile``.
 """
 
 from __future__ import annotations
@@ -74,7 +75,7 @@ from decimal import Decimal
 
 from netsynth import values
 from netsynth.errors import StockError, ValueParseError
-from netsynth.stock import (
+from netsynth.stock.items import (
     COLUMNS,
     DEFAULT_MAX_TEMP_C,
     DEFAULT_MAX_VOLTS,
@@ -190,7 +191,8 @@ def load_bin(path: str | os.PathLike) -> StockBin:
     Returns
     -------
     StockBin
-        One item per distinct (value, ratings); rows with qty 0 are left out.
+        One item per distinct (value, ratings); rows with qty 0 are left out.  Each item's
+        ``line`` is the line number of the first row merged into it.
 
     Raises
     ------
@@ -238,9 +240,7 @@ def load_bin(path: str | os.PathLike) -> StockBin:
                                      f"{cell!r} is under a column with no name; name the column "
                                      "in the header or remove the cell")
                 extra.append((title, cell))
-        items_row = _read_row(row, extra, where)
-        if items_row is not None:
-            items.append(items_row)
+        items.append(_read_row(row, extra, where, line))
 
     if not seen_row:
         raise StockError(f"{name}: the header is on line {header_line} but no row lists a part; "
@@ -252,7 +252,7 @@ def load_bin(path: str | os.PathLike) -> StockBin:
     return StockBin(tuple(merged), name=name)
 
 
-def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str) -> StockItem:
+def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str, line: int) -> StockItem:
     def fail(field: str, reason: str) -> StockError:
         return StockError(f"{where}, field '{field}': {reason}")
 
@@ -297,6 +297,7 @@ def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str) -> 
         location=row.get("location", ""),
         note=row.get("note", ""),
         extra=tuple(extra),
+        line=line,
     )
 
 

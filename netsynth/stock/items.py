@@ -1,32 +1,29 @@
-"""The user's stock bin: which resistor values are on hand, how many, and their ratings.
+"""Stock items and the bin: the data types, their checks, the defaults and the merge rule.
 
 Map of the module
 -----------------
-``StockItem``        one line of the bin (frozen): value, count, tolerance, ratings, where it is
-``StockBin``         the whole bin (frozen): items sorted by value, never empty
-``kit_bin``          a full E-series kit over a range of values, built from IEC 60063 tables
-``default_bin``      the built-in bin: E24 10 Ω..1 MΩ, 1 % ¼ W 200 V 100 ppm/K, as many as needed
-``bin_from_values``  a bin from a list of values, for the API and tests
-``load_bin``         read a bin file (CSV); lives in :mod:`netsynth.binfile`, re-exported here
-``save_bin``         write a bin file atomically; lives in :mod:`netsynth.binfile`, re-exported here
+``StockItem``        one line of the bin (frozen): value, count, tolerance, ratings, where it is,
+                     and the bin-file line it came from (``line``)
+``StockBin``         the whole bin (frozen): items sorted by value, never empty; numbers the
+                     lines of items that came from no file by their position
+``DEFAULT_*``        the ratings of a part nobody described (1 % ¼ W 200 V 100 ppm/K, 155 °C)
+``COLUMNS``          the bin file's own columns, in the order ``save_bin`` writes them
+``_merge``           the merge rule: lines with the same value and the same ratings (tolerance,
+                     power, voltage limit, TCR, upper category temperature) are one part
 
-The bin file format (columns, comments, merge rules, error messages) is described in
-:mod:`netsynth.binfile`.  The merge rule itself (:func:`_merge`) lives here, because
-``bin_from_values`` uses it too: lines with the same value and the same ratings (tolerance,
-power, voltage limit, TCR, upper category temperature) are one part.
+This module imports no other module of :mod:`netsynth.stock`: ``kits`` and ``binfile`` build
+on it (the bin file format is described in :mod:`netsynth.stock.binfile`).
 """
 
 from __future__ import annotations
 
 import dataclasses
-import functools
 import math
 import numbers
 import re
 from collections.abc import Iterable
 from dataclasses import dataclass
 
-from netsynth import eseries, values
 from netsynth.errors import StockError
 
 __all__ = [
@@ -38,11 +35,6 @@ __all__ = [
     "DEFAULT_TOLERANCE",
     "StockBin",
     "StockItem",
-    "bin_from_values",
-    "default_bin",
-    "kit_bin",
-    "load_bin",
-    "save_bin",
 ]
 
 # Defaults describe a common general-purpose part: a 1 % ¼ W metal-film leaded resistor or a
@@ -131,6 +123,12 @@ def _problem_max_temp(temp_c: object) -> str | None:
     return None
 
 
+def _problem_line(line: object) -> str | None:
+    if not isinstance(line, numbers.Integral) or isinstance(line, bool) or line < 0:
+        return "a line number is a whole number, 1 or more, or 0 for not assigned yet"
+    return None
+
+
 def _normalize_column(name: str) -> str:
     """The key a header cell is matched by: lower case, stripped, spaces/hyphens -> '_'."""
     return re.sub(r"[\s\-]+", "_", name.strip().lower())
@@ -169,6 +167,12 @@ class StockItem:
         are kept (sorted by column name, so column order in the file does not matter) and
         written back by ``save_bin``.  Names must not be one of :data:`COLUMNS`; texts must
         not be blank.
+    line : int
+        Where the item is listed: the bin file's line number (1-based, the physical line) of
+        the first row merged into it, set by ``load_bin``.  0 means not assigned yet;
+        :class:`StockBin` then numbers the item by its position in the sorted bin.
+        Keyword-only, and not part of equality, hashing, sorting or the merge rule: the same
+        part read from another line is the same part.  ``save_bin`` does not write it.
 
     Raises
     ------
@@ -179,6 +183,8 @@ class StockItem:
     --------
     >>> StockItem(4700.0, count=10).tolerance
     0.01
+    >>> StockItem(4700.0, line=7) == StockItem(4700.0)  # where it is listed is not what it is
+    True
     >>> StockItem(0.0)
     Traceback (most recent call last):
     ...
@@ -197,6 +203,8 @@ class StockItem:
     location: str = ""
     note: str = ""
     extra: tuple[tuple[str, str], ...] = ()  #: unknown columns, kept and ignored
+    #: bin-file line of the first row merged into this item; 0 = not assigned yet (keyword-only)
+    line: int = dataclasses.field(default=0, kw_only=True, compare=False)
 
     def __post_init__(self) -> None:
         checks = (
@@ -207,6 +215,7 @@ class StockItem:
             ("max_volts", _problem_volts),
             ("tcr_ppm", _problem_tcr),
             ("max_temp_c", _problem_max_temp),
+            ("line", _problem_line),
         )
         for field, check in checks:
             if problem := check(getattr(self, field)):
@@ -218,6 +227,7 @@ class StockItem:
             set_(self, field, float(getattr(self, field)))
         if self.count is not None:
             set_(self, "count", int(self.count))
+        set_(self, "line", int(self.line))
         for field in _TEXT_FIELDS:
             text = getattr(self, field)
             if not isinstance(text, str):
@@ -250,8 +260,10 @@ def _ratings(item: StockItem) -> tuple[float, float, float, float, float]:
     return (item.tolerance, item.power_rating_w, item.max_volts, item.tcr_ppm, item.max_temp_c)
 
 
-def _sort_key(item: StockItem) -> tuple:
-    # None (as many as needed) sorts after every finite count.
+def bin_order(item: StockItem) -> tuple:
+    """The key a bin sorts its lines by: value, ratings, count, then text (never the file's row order)."""
+    # None (as many as needed) sorts after every finite count.  ``line`` is left out on
+    # purpose: the order of a bin's items does not depend on the order of the file's rows.
     count_key = (1, 0) if item.count is None else (0, item.count)
     return (item.ohms, _ratings(item), count_key, item.package, item.location, item.note, item.extra)
 
@@ -263,7 +275,10 @@ class StockBin:
     Parameters
     ----------
     items : iterable of StockItem
-        Stored as a tuple sorted by ohms, then by ratings, count and text.  Never empty.
+        Stored as a tuple sorted by ohms, then by ratings, count and text (never by
+        ``line``).  Never empty.  An item whose ``line`` is 0 is stored with ``line`` set to
+        its 1-based position in the sorted tuple, so a bin built in code (a kit, the default
+        bin) numbers its lines in order.
     name : str
         Where the bin came from: a file path, ``"kit E24 10 Ω..1 MΩ, ..."``, ``"default: ..."``.
 
@@ -279,6 +294,8 @@ class StockBin:
     ((100.0, 1000.0), (None, 2))
     >>> b.item_for(1e3).count
     2
+    >>> [item.line for item in b.items]  # built in code: numbered by position
+    [1, 2]
     """
 
     items: tuple[StockItem, ...]
@@ -294,7 +311,12 @@ class StockBin:
                 raise StockError(f"{label}expected StockItem entries in the bin, got {item!r}")
         if not isinstance(self.name, str):
             raise StockError(f"a bin name is text, got {self.name!r}")
-        object.__setattr__(self, "items", tuple(sorted(items, key=_sort_key)))
+        ordered = sorted(items, key=bin_order)
+        numbered = tuple(
+            dataclasses.replace(item, line=position) if item.line == 0 else item
+            for position, item in enumerate(ordered, start=1)
+        )
+        object.__setattr__(self, "items", numbered)
 
     @property
     def values(self) -> tuple[float, ...]:
@@ -360,134 +382,3 @@ def _merge(items: Iterable[StockItem]) -> list[StockItem]:
             **{f: _join_texts(getattr(it, f) for it in group) for f in _TEXT_FIELDS},
         ))
     return merged
-
-
-# --------------------------------------------------------------------------- built-in bins
-
-_WATTS_TEXT = {0.125: "⅛ W", 0.25: "¼ W", 0.5: "½ W"}
-
-
-def _describe(low_ohms: float, high_ohms: float, tolerance: float, power_w: float,
-              count: int | None) -> str:
-    watts = _WATTS_TEXT.get(power_w, f"{power_w:g} W")
-    each = "unlimited" if count is None else f"{count} each"
-    return (f"{values.format_ohms(low_ohms)}..{values.format_ohms(high_ohms)}, "
-            f"{tolerance * 100:g} % {watts}, {each}")
-
-
-def kit_bin(
-    series: str = "E24",
-    low_ohms: float = 10.0,
-    high_ohms: float = 1e6,
-    count: int | None = None,
-    tolerance: float | None = None,
-    power_rating_w: float = DEFAULT_POWER_W,
-    max_volts: float = DEFAULT_MAX_VOLTS,
-) -> StockBin:
-    """A full E-series kit: every value of `series` from `low_ohms` to `high_ohms` inclusive.
-
-    Parameters
-    ----------
-    series : str
-        An IEC 60063 series name from ``eseries.SERIES_NAMES`` (E3 .. E192).
-    low_ohms, high_ohms : float
-        The range in ohms, both ends included.
-    count : int or None
-        Parts of each value; None means as many as needed.
-    tolerance : float or None
-        Fraction.  None takes the series' own tolerance (``eseries.series_tolerance``: E24 5 %,
-        E96 1 %, ...), or 1 % for E3, which IEC 60063 gives no tolerance.
-    power_rating_w, max_volts : float
-        Ratings of every part, in watts and volts.  TCR is the default, 100 ppm/K.
-
-    Returns
-    -------
-    StockBin
-        Named like ``"kit E24 10 Ω..1 MΩ, 5 % ¼ W, unlimited"``.
-
-    Raises
-    ------
-    StockError
-        If the range holds no value of the series, or a rating is out of range.
-    ValueParseError
-        If the series name is unknown or the range is not ``0 < low <= high`` (from
-        ``eseries.series_values``).
-
-    References
-    ----------
-    IEC 60063:2015, preferred number series for resistors and capacitors.
-
-    Examples
-    --------
-    >>> len(kit_bin("E12", 100, 1000))  # 100, 120, ..., 820, 1000
-    13
-    """
-    if tolerance is None:
-        tolerance = eseries.series_tolerance(series)
-        if tolerance is None:
-            tolerance = DEFAULT_TOLERANCE  # E3 has no tolerance in IEC 60063 (">20 %")
-    found = eseries.series_values(series, low_ohms, high_ohms)
-    if not found:
-        raise StockError(f"kit {series} from {low_ohms!r} to {high_ohms!r} ohms holds no "
-                         "value of the series; widen the range")
-    items = tuple(StockItem(ohms, count, tolerance, power_rating_w, max_volts) for ohms in found)
-    return StockBin(items, name=f"kit {series} " + _describe(found[0], found[-1], tolerance,
-                                                             power_rating_w, count))
-
-
-@functools.cache
-def default_bin() -> StockBin:
-    """The built-in bin used when the user gives none.
-
-    A full E24 kit from 10 Ω to 1 MΩ (121 values: 24 per decade over five decades, plus
-    1 MΩ; IEC 60063), as many as needed of each, 1 % ¼ W 200 V 100 ppm/K: the parts a
-    typical bench has drawers of (module constants explain the ratings).
-
-    Examples
-    --------
-    >>> len(default_bin()), default_bin().name
-    (121, 'default: E24 10 Ω..1 MΩ, 1 % ¼ W, unlimited')
-    """
-    kit = kit_bin("E24", 10.0, 1e6, None, DEFAULT_TOLERANCE, DEFAULT_POWER_W, DEFAULT_MAX_VOLTS)
-    return StockBin(kit.items, name="default: E24 " + _describe(10.0, 1e6, DEFAULT_TOLERANCE,
-                                                                DEFAULT_POWER_W, None))
-
-
-def bin_from_values(ohms: Iterable[float | str], count: int | None = None, name: str = "") -> StockBin:
-    """A bin of default-rated parts (1 % ¼ W 200 V 100 ppm/K) from a list of values.
-
-    Parameters
-    ----------
-    ohms : iterable of float or str
-        Values in ohms; text is read with ``values.parse_resistance`` (``"4k7"``).  A value
-        given twice is one item with the counts added, as in a bin file.
-    count : int or None
-        Parts of each listed value; None means as many as needed.
-    name : str
-        The bin's name.
-
-    Raises
-    ------
-    StockError
-        If the list is empty or a value is not a positive finite resistance.
-    ValueParseError
-        If a text value cannot be read.
-
-    Examples
-    --------
-    >>> bin_from_values(["4k7", 100, 100], count=2).counts
-    (4, 2)
-    """
-    items = [
-        StockItem(values.parse_resistance(o) if isinstance(o, str) else o, count)
-        for o in ohms
-    ]
-    return StockBin(tuple(_merge(items)), name=name)
-
-
-# --------------------------------------------------------------------------- re-export
-
-# Reading and writing bin files is netsynth.binfile's job, but the public API stays in one
-# place: ``from netsynth.stock import load_bin, save_bin`` works as it always has.  This import
-# sits at the end because binfile imports this module's names at its top; by now they all exist.
-from netsynth.binfile import load_bin, save_bin  # noqa: E402
