@@ -99,11 +99,9 @@ def make(
     found = search_frontier(target_ohms, stock, max_parts, within, alternatives, on_progress, point, derating)
     frontier = tuple(
         FrontierEntry(
+            row=row,
             best=checked(row.best, target_ohms),
             alternatives=tuple(checked(f, target_ohms) for f in row.alternatives),
-            proven=row.proven,
-            method=row.method,
-            stress=row.stress,
         )
         for row in found.rows
     )
@@ -194,14 +192,8 @@ def checked(found: Found, target_ohms: float) -> Candidate:
     value = resistance(found.network)
     edges, nodes = to_netlist(found.network)
     verified = verify_resistance(value, edges, nodes, rtol=VERIFY_RTOL)
-    return Candidate(
-        parts=found.parts,
-        network=found.network,
-        expression=to_text(found.network),
-        value_ohms=value,
-        error=value / target_ohms - 1.0,
-        verified_ohms=verified,
-    )
+    exact = dataclasses.replace(found, value_ohms=value, error=value / target_ohms - 1.0)
+    return Candidate(found=exact, expression=to_text(found.network), verified_ohms=verified)
 
 
 def pick_list(net: Network) -> tuple[PickLine, ...]:

@@ -1,6 +1,10 @@
-"""Result types of a search: candidates, the frontier, the pick list and the design.
+"""Result types of a request: verified candidates, frontier entries, the pick list and the design.
 
-Plain frozen records; built by :mod:`netsynth.api`, shown by :mod:`netsynth.render`.
+Plain frozen records; built by :mod:`netsynth.api`, shown by :mod:`netsynth.render`. One record
+per stage, each built from the one before instead of copying its fields:
+
+    search.exact.Found  --(nodal check)-->  Candidate
+    search.frontier.FrontierRow  --(candidates verified)-->  FrontierEntry
 """
 
 from __future__ import annotations
@@ -12,20 +16,35 @@ from netsynth.analysis.review import Review
 from netsynth.analysis.stress import NetworkStress
 from netsynth.network import Network, Part, parts_in_order
 from netsynth.search.arrays import PartBound
-from netsynth.search.frontier import Reach
+from netsynth.search.exact import Found
+from netsynth.search.frontier import FrontierRow, Reach
 from netsynth.stock import StockItem
 
 
 @dataclass(frozen=True, slots=True)
 class Candidate:
-    """One network with its value, its error against the target, and its nodal check."""
+    """A search result with its nodal check: the network, its value and error, and the solver's value."""
 
-    parts: int
-    network: Network
-    expression: str
-    value_ohms: float
-    error: float  #: signed relative error, value / target − 1
+    found: Found  #: the search's record (network, value, signed relative error, part count)
+    expression: str  #: the network's text form (``to_text``)
     verified_ohms: float  #: from the nodal solver, which knows no series/parallel rule
+
+    @property
+    def parts(self) -> int:
+        return self.found.parts
+
+    @property
+    def network(self) -> Network:
+        return self.found.network
+
+    @property
+    def value_ohms(self) -> float:
+        return self.found.value_ohms
+
+    @property
+    def error(self) -> float:
+        """Signed relative error, value / target − 1."""
+        return self.found.error
 
     @property
     def components(self) -> tuple[Part, ...]:
@@ -35,17 +54,30 @@ class Candidate:
 
 @dataclass(frozen=True, slots=True)
 class FrontierEntry:
-    """The best network of exactly ``parts`` parts and its runners-up."""
+    """A frontier row whose networks have passed the nodal check."""
 
+    row: FrontierRow  #: the search's row: proof, method, stress
     best: Candidate
     alternatives: tuple[Candidate, ...]
-    proven: bool  #: True when the exhaustive search showed no n-part network does better
-    method: str = "exhaustive"  #: "exhaustive" or the regular-array family that produced it
-    stress: NetworkStress | None = None  #: per-part stress at the operating point (nodal)
 
     @property
     def parts(self) -> int:
-        return self.best.parts
+        return self.row.parts
+
+    @property
+    def proven(self) -> bool:
+        """True when the exhaustive search showed no network of this many parts does better."""
+        return self.row.proven
+
+    @property
+    def method(self) -> str:
+        """"exhaustive" or the regular-array family that produced the row."""
+        return self.row.method
+
+    @property
+    def stress(self) -> NetworkStress | None:
+        """Per-part stress of ``best`` at the operating point (nodal), None without one."""
+        return self.row.stress
 
 
 @dataclass(frozen=True, slots=True)
