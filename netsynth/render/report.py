@@ -19,6 +19,10 @@ DRAW_PARTS = 12
 EXACT = 1e-12
 
 
+def _parts(n: int) -> str:
+    return f"{n} part" if n == 1 else f"{n} parts"
+
+
 def _ppm(error: float) -> str:
     if abs(error) < EXACT:
         return "0"
@@ -59,7 +63,7 @@ def _proof(entry) -> str:
 
 def design_text(d: Design, show_alternatives: bool = False) -> str:
     """The frontier table, the recommended network drawn, its pick list, checks and cautions."""
-    limit = f"up to {d.part_limit} parts" + ("" if d.max_parts else " (as needed)" if d.point or d.value_parts > 1 else "")
+    limit = f"up to {_parts(d.part_limit)}" + ("" if d.max_parts else " (as needed)" if d.point or d.value_parts > 1 else "")
     out = [f"Target {format_ohms(d.target_ohms, 6)}   bin: {d.bin_name}   {limit}"]
     if d.within is not None:
         out[0] += f"   within ±{format_error(d.within).lstrip('+')}"
@@ -213,7 +217,7 @@ def review_lines(r: Review) -> list[str]:
 def check_text(c: Candidate, r: Review) -> str:
     """Report of one network the user typed."""
     out = [
-        f"Network: {c.expression}  ({c.parts} part{'s' if c.parts > 1 else ''})",
+        f"Network: {compact(c.network) if c.parts > DRAW_PARTS else c.expression}  ({_parts(c.parts)})",
         f"Value: {format_ohms(c.value_ohms, 6)}" + ("" if c.error == 0 else f"  (target error {format_error(c.error)})"),
         _verified(c),
         "",
