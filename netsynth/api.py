@@ -36,7 +36,8 @@ from netsynth.network import (
 )
 from netsynth.nodal import VERIFY_RTOL, verify_resistance
 from netsynth.search.exact import Found
-from netsynth.search.frontier import PREFERENCES, Preference, pick, search_frontier
+from netsynth.inputs import PREFERENCES, Preference
+from netsynth.search.frontier import pick, search_frontier
 from netsynth.stock import StockBin, StockItem, bin_order
 from netsynth.values import to_code
 

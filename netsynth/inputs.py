@@ -36,10 +36,15 @@ import numbers
 import os
 import re
 from collections.abc import Callable
+from typing import Literal, get_args
 
 from netsynth.errors import ArgumentError, ValueParseError
 from netsynth.stock import StockBin, default_bin, load_bin
 from netsynth.values import parse_ratio, parse_resistance, parse_tolerance
+
+#: what ranks the recommended network first (``make(prefer=...)``, ``--prefer``)
+Preference = Literal["error", "parts", "headroom"]
+PREFERENCES: tuple[str, ...] = get_args(Preference)
 
 __all__ = [
     "ABSOLUTE_ZERO_C",

@@ -23,19 +23,17 @@ from __future__ import annotations
 import math
 from collections.abc import Callable
 from dataclasses import dataclass, replace
-from typing import Literal, get_args
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
 from netsynth.analysis.lines import assign_lines, value_pool
 from netsynth.analysis.stress import NetworkStress, network_stress
 from netsynth.errors import ArgumentError, InfeasibleError
+from netsynth.inputs import PREFERENCES, Preference
 from netsynth.search.arrays import PartBound, part_lower_bound, search_arrays
 from netsynth.search.exact import ExactSearch, Found
 from netsynth.stock import StockBin
 from netsynth.values import format_ohms
 
-Preference = Literal["error", "parts", "headroom"]
-PREFERENCES: tuple[str, ...] = get_args(Preference)
 
 #: default part count for the exhaustive search without an operating point
 DEFAULT_MAX_PARTS = 4

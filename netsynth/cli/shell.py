@@ -1,9 +1,9 @@
-"""The ``netsynth`` command: a thin shell over :mod:`netsynth.api`.
+"""The ``netsynth`` group and what every command shares: value types, errors, bin and condition options.
 
-The only module that imports click. Option values are read by click parameter types
-that call the :mod:`netsynth.values` parsers, so a bad or empty option value is a
-usage error (exit status 2), like a missing argument or conflicting options. Errors
-the library raises (:class:`~netsynth.errors.NetsynthError`) exit with status 1.
+Option values are read by click parameter types that call the :mod:`netsynth.values` parsers,
+so a bad or empty option value is a usage error (exit status 2), like a missing argument or
+conflicting options. Errors the library raises (:class:`~netsynth.errors.NetsynthError`)
+exit with status 1.
 
 Every error is reported in one place, :meth:`Shell.main`. Without ``--json`` it is
 one ``Error: ...`` line on stderr (click adds the usage line for usage errors). With
@@ -15,6 +15,9 @@ one ``Error: ...`` line on stderr (click adds the usage line for usage errors). 
 (ValueParseError), ``stock`` (StockError), ``argument`` (ArgumentError),
 ``infeasible`` (InfeasibleError) or ``verification`` (VerificationError);
 ``message`` is one line.
+
+This module imports nothing that needs numpy, so ``netsynth --help`` and usage errors stay
+fast; the commands import the search and the renderers when they run.
 """
 
 from __future__ import annotations
@@ -36,8 +39,6 @@ from netsynth.analysis.conditions import (
     Derating,
     OperatingPoint,
 )
-from netsynth.api import check as check_network
-from netsynth.api import make as make_design
 from netsynth.errors import (
     ArgumentError,
     InfeasibleError,
@@ -48,12 +49,8 @@ from netsynth.errors import (
 )
 from netsynth.eseries import SERIES_NAMES
 from netsynth.inputs import as_factor, as_temp_c
-from netsynth.render.json import check_dict, design_dict
-from netsynth.render.report import check_text, design_text
-from netsynth.search.frontier import PREFERENCES
 from netsynth.stock import DEFAULT_POWER_W, DEFAULT_TOLERANCE, StockBin, default_bin, kit_bin, load_bin
 from netsynth.values import (
-    format_ohms,
     parse_current,
     parse_duty,
     parse_power,
@@ -62,7 +59,6 @@ from netsynth.values import (
     parse_resistance,
     parse_tolerance,
     parse_voltage,
-    to_code,
 )
 
 # ------------------------------------------------------------------ option value types
@@ -236,7 +232,7 @@ def cli() -> None:
 KIT_OPTIONS = "--series/--range/--qty/--kit-tolerance/--kit-power"
 
 
-def _load_stock(bin_file: str | None, series: str | None, value_range: tuple[float, float] | None,
+def load_stock(bin_file: str | None, series: str | None, value_range: tuple[float, float] | None,
                 qty: int | None, kit_tolerance: float | None, kit_power: float | None) -> StockBin:
     kit_given = any(x is not None for x in (series, value_range, qty, kit_tolerance, kit_power))
     if bin_file is not None and kit_given:
@@ -251,7 +247,7 @@ def _load_stock(bin_file: str | None, series: str | None, value_range: tuple[flo
     return default_bin()
 
 
-def _progress(message: str) -> None:
+def progress(message: str) -> None:
     if sys.stderr.isatty():
         click.echo(f"… {message}", err=True)
 
@@ -290,7 +286,7 @@ def operating_options(fn: Callable) -> Callable:
     return fn
 
 
-def _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains):
+def conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains):
     given = [x for x in (volts, amps, watts) if x is not None]
     if len(given) > 1:
         raise click.UsageError("give only one of --volts, --amps or --watts")
@@ -304,139 +300,36 @@ def _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains):
     return point, derating
 
 
-@cli.command()
-@click.argument("target", type=RESISTANCE)
-@click.option("--bin", "bin_file", type=BIN_FILE, metavar="FILE",
-              help="Stock bin CSV (columns value, qty, tolerance, watts, max_volts, tcr, max_temp, package, "
-              "location, note), e.g. bins/makerspace-drawer.csv.")
-@click.option("--series", type=click.Choice(SERIES_NAMES, case_sensitive=False),
-              help="Use a kit of one E-series instead of a bin file (IEC 60063).")
-@click.option("--range", "value_range", type=RANGE, metavar="LOW..HIGH",
-              help="Kit value range, both ends included: 10..1M, 1R..10k, 100..100k (default 10..1M).")
-@click.option("--qty", type=click.IntRange(min=1), metavar="N",
-              help="Kit parts per value (default: as many as needed).")
-@click.option("--kit-tolerance", type=TOLERANCE, metavar="TOL",
-              help=f"Kit part tolerance: 1%, 0.1 %, or a letter (F = 1 %, B = 0.1 %) "
-              f"(default {DEFAULT_TOLERANCE * 100:g} %, as the default bin).")
-@click.option("--kit-power", type=POWER, metavar="W",
-              help=f"Kit part power rating at 70 °C: 0.25, 1/4W, 250mW, 1W (default {DEFAULT_POWER_W:g} W, "
-              "as the default bin).")
-@click.option("--max-parts", "-k", type=click.IntRange(min=1, max=400), metavar="K",
-              help="Largest part count to search, 1 to 400 (default 4; with an operating point, as many as needed).")
-@click.option("--within", type=ACCURACY, metavar="TOL",
-              help="Required accuracy: 0.1%, 50ppm, 1e-5% (a bare number is refused: fraction or percent?). "
-              "Stops at the fewest parts inside it.")
-@click.option("--alternatives", type=click.IntRange(min=0, max=20), default=2, show_default=True, metavar="N",
-              help="Runners-up to list per part count.")
-@click.option("--prefer", type=click.Choice(PREFERENCES), default="error", show_default=True,
-              help="What ranks the recommended network first: smallest error, fewest parts, or most headroom "
-              "(the last two among networks within --within, default ±1 %).")
-@operating_options
-@click.option("--json", "as_json", is_flag=True,
-              help="Print one JSON object for scripts; errors too: {\"error\": {\"kind\": ..., \"message\": ...}}.")
-def make(target, bin_file, series, value_range, qty, kit_tolerance, kit_power, max_parts, within, alternatives,
-         prefer, volts, amps, watts, duty, ambient, derate, volt_derate, mains, spec, temp, as_json):
-    """Find the best networks for TARGET ohms from your stock.
-
-    TARGET is a resistance such as 3k37, 25m (milliohm) or 1M8. Without --bin
-    or kit options the built-in default bin is used: a full E24 kit from
-    10 Ω to 1 MΩ, 1 % ¼ W parts, as many of each as needed.
-
-    \b
-    Examples:
-      netsynth make 3k37
-      netsynth make 25m --bin bins/power-shelf.csv
-      netsynth make 1k234 --series E12 --range 100..100k --qty 2 -k 5
-      netsynth make 4k99 --series E96 --kit-tolerance 0.1% --kit-power 1/8W
-      netsynth make 3k37 --within 0.1% --json
-      netsynth make 10 --watts 5 --bin bins/power-shelf.csv
-      netsynth make 1M8 --volts 1kV --series E24 --range 10k..1M
-
-    With --volts, --amps or --watts every part must stay within its derated
-    power and voltage limits; the search then goes to as many parts as the
-    physics needs, and reports the lower bound on the count.
-
-    Exit status: 0 done, 1 no answer (bad bin, nothing meets the limits),
-    2 a bad command line.
-    """
-    stock = _load_stock(bin_file, series, value_range, qty, kit_tolerance, kit_power)
-    point, derating = _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains)
-    design = make_design(target, stock, max_parts=max_parts, within=within, alternatives=alternatives,
-                         on_progress=None if as_json else _progress, point=point, derating=derating, prefer=prefer,
-                         spec=spec, temp_c=temp)
-    if as_json:
-        click.echo(json.dumps(design_dict(design), indent=2, ensure_ascii=False))
-    else:
-        click.echo(design_text(design, show_alternatives=alternatives > 0))
+def stock_options(fn: Callable) -> Callable:
+    """``--bin FILE`` or a kit (``--series/--range/--qty/--kit-tolerance/--kit-power``); read with :func:`load_stock`."""
+    options = [
+        click.option("--bin", "bin_file", type=BIN_FILE, metavar="FILE",
+                     help="Stock bin CSV (columns value, qty, tolerance, watts, max_volts, tcr, max_temp, package, "
+                     "location, note), e.g. bins/makerspace-drawer.csv."),
+        click.option("--series", type=click.Choice(SERIES_NAMES, case_sensitive=False),
+                     help="Use a kit of one E-series instead of a bin file (IEC 60063)."),
+        click.option("--range", "value_range", type=RANGE, metavar="LOW..HIGH",
+                     help="Kit value range, both ends included: 10..1M, 1R..10k, 100..100k (default 10..1M)."),
+        click.option("--qty", type=click.IntRange(min=1), metavar="N",
+                     help="Kit parts per value (default: as many as needed)."),
+        click.option("--kit-tolerance", type=TOLERANCE, metavar="TOL",
+                     help=f"Kit part tolerance: 1%, 0.1 %, or a letter (F = 1 %, B = 0.1 %) "
+                     f"(default {DEFAULT_TOLERANCE * 100:g} %, as the default bin)."),
+        click.option("--kit-power", type=POWER, metavar="W",
+                     help=f"Kit part power rating at 70 °C: 0.25, 1/4W, 250mW, 1W (default {DEFAULT_POWER_W:g} W, "
+                     "as the default bin)."),
+    ]
+    for option in reversed(options):
+        fn = option(fn)
+    return fn
 
 
-@cli.command()
-@click.argument("expression")
-@click.option("--bin", "bin_file", type=BIN_FILE, metavar="FILE",
-              help="Stock bin the parts come from (ratings, tolerance, tcr), e.g. bins/power-shelf.csv; "
-              "default: the built-in bin.")
-@click.option("--target", type=RESISTANCE, metavar="OHMS",
-              help="The value the network is meant to have, e.g. 3k37 (for its error and yield).")
-@operating_options
-@click.option("--json", "as_json", is_flag=True,
-              help="Print one JSON object for scripts; errors too: {\"error\": {\"kind\": ..., \"message\": ...}}.")
-def check(expression, bin_file, target, volts, amps, watts, duty, ambient, derate, volt_derate, mains, spec, temp,
-          as_json):
-    """Analyse a network you typed: value, bands, drift and per-part stress.
-
-    EXPRESSION uses + for series and || for parallel, with parentheses around
-    every compound part: "1k + (2k2 || 4k7)". Values in any accepted spelling.
-    Parts are matched to the bin by value for their ratings.
-
-    \b
-    Examples:
-      netsynth check "1k + (2k2 || 4k7)"
-      netsynth check "680 + 2k7" --target 3k37 --spec 0.5% --temp 85
-      netsynth check "(100 + 100) || (100 + 100)" --volts 24 --bin bins/power-shelf.csv
-      netsynth check "470k + 470k + 470k + 470k" --volts 1kV --ambient 50 --json
-    """
-    stock = load_bin(bin_file) if bin_file is not None else default_bin()
-    point, derating = _conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains)
-    candidate, verdict = check_network(expression, stock, point, derating, spec=spec, temp_c=temp, target=target)
-    if as_json:
-        click.echo(json.dumps(check_dict(candidate, verdict), indent=2, ensure_ascii=False))
-    else:
-        click.echo(check_text(candidate, verdict))
+def json_option(fn: Callable) -> Callable:
+    return click.option("--json", "as_json", is_flag=True,
+                        help="Print one JSON object for scripts; errors too: "
+                        "{\"error\": {\"kind\": ..., \"message\": ...}}.")(fn)
 
 
-@cli.command(name="bin")
-@click.argument("bin_file", required=False, type=BIN_FILE, metavar="FILE")
-@click.option("--json", "as_json", is_flag=True, help="Print the bin as JSON (errors as {\"error\": ...}).")
-def show_bin(bin_file, as_json):
-    """Check a stock bin file and list what it holds (the default bin without FILE).
-
-    \b
-    Examples:
-      netsynth bin bins/precision-kit.csv
-      netsynth bin --json
-    """
-    stock = load_bin(bin_file) if bin_file is not None else default_bin()
-    if as_json:
-        items = [
-            {"value_ohms": i.ohms, "qty": i.count, "tolerance": i.tolerance, "watts": i.power_rating_w,
-             "max_volts": i.max_volts, "tcr_ppm": i.tcr_ppm, "package": i.package, "location": i.location,
-             "note": i.note}
-            for i in stock.items
-        ]
-        click.echo(json.dumps({"bin": stock.name, "items": items}, indent=2, ensure_ascii=False))
-        return
-    click.echo(f"{stock.name}: {len(stock)} stock lines")
-    for i in stock.items:
-        qty = "any" if i.count is None else str(i.count)
-        click.echo(
-            f"  {to_code(i.ohms):>8}  {format_ohms(i.ohms):>10}  qty {qty:>4}  ±{i.tolerance * 100:g} %  "
-            f"{i.power_rating_w:g} W  {i.max_volts:g} V  {i.location}".rstrip()
-        )
-
-
-def main() -> None:
-    cli(prog_name="netsynth")
-
-
-if __name__ == "__main__":
-    main()
+def echo_json(data: object) -> None:
+    """One JSON document on stdout (UTF-8 text, indented)."""
+    click.echo(json.dumps(data, indent=2, ensure_ascii=False))
