@@ -13,14 +13,16 @@ raises :class:`~netsynth.errors.VerificationError` instead of being shown.
 from __future__ import annotations
 
 import dataclasses
+import os
 import time
 from collections.abc import Callable
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
-from netsynth.analysis.lines import assign_lines
+from netsynth.analysis.lines import assign_lines, value_key, value_pool
+from netsynth.analysis.netlist import NetlistReview, review_netlist
 from netsynth.analysis.review import Review, review
 from netsynth.design import Candidate, Design, FrontierEntry, PickLine
-from netsynth.errors import ArgumentError
+from netsynth.errors import ArgumentError, StockError
 from netsynth.inputs import as_bin, as_count, as_fraction, as_ohms, as_temp_c
 from netsynth.network import (
     Network,
@@ -34,7 +36,9 @@ from netsynth.network import (
     to_netlist,
     to_text,
 )
+from netsynth.netlist import Netlist, read_netlist, topology
 from netsynth.nodal import VERIFY_RTOL, verify_resistance
+from netsynth.render import notebook  # noqa: F401  (registers the notebook display of results)
 from netsynth.search.exact import Found
 from netsynth.inputs import PREFERENCES, Preference
 from netsynth.search.frontier import pick, search_frontier
@@ -207,3 +211,91 @@ def pick_list(net: Network) -> tuple[PickLine, ...]:
         if part.line is not None:
             counts[part.line] = counts.get(part.line, 0) + 1
     return tuple(PickLine(line, n) for line, n in sorted(counts.items(), key=lambda kv: bin_order(kv[0])))
+
+
+def take_list(
+    network: Network | str,
+    stock: StockBin | str,
+    point: OperatingPoint | None = None,
+    derating: Derating = Derating(),
+) -> tuple[PickLine, ...]:
+    """The stock lines a built network takes from ``stock``, tied as :func:`make` ties them.
+
+    Counts bind: each line gives at most what it holds. With ``point`` the lines are chosen for
+    the most headroom (so a network found with an operating point takes the same lines it was
+    checked with); without, in the bin's order.
+
+    Raises
+    ------
+    StockError
+        When the bin cannot supply the network: a value it does not hold, or more parts of a
+        value than its lines hold together (naming the value, what is held and what is needed).
+    """
+    if isinstance(network, str):
+        net = from_text(network)
+    elif isinstance(network, (Part, Series, Parallel)):
+        net = network
+    else:
+        raise ArgumentError(f"network={network!r}: expected a network or its text form, e.g. '1k + (2k2 || 4k7)'")
+    stock = as_bin(stock)
+    _check_conditions(point, derating)
+    assigned = assign_lines(net, stock, point, derating)
+    if assigned is None:
+        values, counts = value_pool(stock)
+        held = {value_key(v): c for v, c in zip(values, counts)}
+        need: dict[float, int] = {}
+        for part in parts_in_order(net):
+            need[value_key(part.ohms)] = need.get(value_key(part.ohms), 0) + 1
+        for key, n in sorted(need.items()):
+            if key not in held:
+                raise StockError(f"{stock.name} holds no {to_code(key)}; the network needs {n}")
+            if held[key] is not None and held[key] < n:
+                lines = "; ".join(f"line {i.line}" + (f" at {i.location}" if i.location else "") + f": {i.count}"
+                                  for i in stock.items if value_key(i.ohms) == key)
+                raise StockError(f"{stock.name} holds {held[key]} of {to_code(key)} ({lines}); the network takes "
+                                 f"{n}; nothing was changed")
+        raise StockError(f"{stock.name} cannot supply every part of the network")  # not reached: counts pooled
+    return pick_list(assigned.network)
+
+
+def check_netlist(
+    netlist: str | os.PathLike | Netlist,
+    between: tuple[str, str] | None = None,
+    stock: StockBin | str | None = None,
+    point: OperatingPoint | None = None,
+    derating: Derating = Derating(),
+    spec: float | str | None = None,
+    temp_c: float | str | None = None,
+    target: float | str | None = None,
+) -> tuple[NetlistReview, Candidate | None, Review]:
+    """Check a network read from a netlist (SPICE or edge list) between two named terminals.
+
+    ``between`` defaults to the subcircuit's two ports. Every network, bridges included, gets the
+    nodal analysis of :func:`netsynth.analysis.netlist.review_netlist` (per element: its line,
+    share of the power, and whether it carries current). A series/parallel one also gets its
+    ``+``/``||`` form and the usual :func:`check` of that form (the Candidate, and the Review the
+    report shows); for any other the Review is the nodal one and the Candidate is None.
+
+    Raises
+    ------
+    ValueParseError
+        The file cannot be read (file, line and what is wrong).
+    ArgumentError
+        A terminal names no node, or no path of parts joins the two terminals.
+    VerificationError
+        The ``+``/``||`` form and the netlist's nodal solve disagree (a bug; never shown).
+    """
+    net = netlist if isinstance(netlist, Netlist) else read_netlist(netlist)
+    a, b = between if between is not None else (None, None)
+    topo = topology(net, a, b)
+    stock = as_bin(stock)
+    spec = as_fraction(spec, "spec")
+    temp_c = as_temp_c(temp_c, "temp_c")
+    target_ohms = None if target is None else as_ohms(target, "target")
+    _check_conditions(point, derating)
+    general = review_netlist(topo, stock, point, derating, target_ohms, spec, temp_c)
+    if topo.network is None:
+        return general, None, general.review
+    candidate, verdict = check(topo.network, stock, point, derating, spec=spec, temp_c=temp_c, target=target)
+    verify_resistance(candidate.value_ohms, list(topo.edges), len(topo.node_names), rtol=VERIFY_RTOL)
+    return general, candidate, verdict

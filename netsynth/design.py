@@ -9,6 +9,7 @@ per stage, each built from the one before instead of copying its fields:
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
@@ -50,6 +51,10 @@ class Candidate:
     def components(self) -> tuple[Part, ...]:
         """Every part with its stock line, in the order the parts appear in ``expression``."""
         return tuple(parts_in_order(self.network))
+
+    def _repr_svg_(self) -> str | None:
+        """The schematic, for Jupyter (see "Notebook display" at the end of this module)."""
+        return _shown(self, "svg")
 
 
 @dataclass(frozen=True, slots=True)
@@ -118,7 +123,37 @@ class Design:
     exhaustive_parts: int  #: part counts up to this were searched exhaustively
     seconds: float
 
+    def _repr_svg_(self) -> str | None:
+        """The recommended network's schematic, for Jupyter (see "Notebook display" below)."""
+        return _shown(self, "svg")
+
+    def _repr_html_(self) -> str | None:
+        """The schematic and the frontier table, for Jupyter (see "Notebook display" below)."""
+        return _shown(self, "html")
+
     @property
     def value_parts(self) -> int:
         """The fewest parts that reach the target from the bin (the part limit when the bin cannot)."""
         return self.reach.parts if self.reach.parts is not None else self.part_limit
+
+
+# ---------------------------------------------------------------- notebook display
+#
+# Jupyter shows a record through its _repr_svg_ / _repr_html_ methods. The drawing lives in
+# netsynth.render, a layer above this module, which this module may not import, not even
+# inside a function (tests/test_layering.py counts those imports too). So the render layer
+# hands its functions down instead: importing netsynth.render.notebook calls set_display.
+# Until then the methods return None, which IPython reads as "no such form" and shows the repr.
+
+#: ("svg" or "html", record type) -> the function that shows such a record in that form
+_DISPLAY: dict[tuple[str, type], Callable[[object], str]] = {}
+
+
+def set_display(form: str, kind: type, show: Callable[[object], str]) -> None:
+    """Register `show` as the way to show records of type `kind` in `form` ("svg" or "html")."""
+    _DISPLAY[(form, kind)] = show
+
+
+def _shown(record: object, form: str) -> str | None:
+    show = _DISPLAY.get((form, type(record)))
+    return None if show is None else show(record)

@@ -38,6 +38,7 @@ import re
 from collections.abc import Callable
 from typing import Literal, get_args
 
+from netsynth import limits
 from netsynth.errors import ArgumentError, ValueParseError
 from netsynth.stock import StockBin, default_bin, load_bin
 from netsynth.values import parse_ratio, parse_resistance, parse_tolerance
@@ -58,14 +59,10 @@ __all__ = [
     "as_tolerance",
 ]
 
-#: °C; absolute zero, 0 K (SI Brochure, 9th ed., §2.3.1: t/°C = T/K − 273.15). Every
-#: temperature must lie above it.
-ABSOLUTE_ZERO_C = -273.15
-#: °C; the practical ceiling on a temperature argument. It is far beyond the upper category
-#: temperature of any resistor (155 °C for common film parts, Vishay D/CRCW and Yageo
-#: CFR/MFR datasheets; a few hundred °C for special high-temperature parts, from memory),
-#: so a value above it is a typo or a temperature in kelvin, not a real condition.
-MAX_TEMP_C = 1000.0
+#: °C; absolute zero; every temperature must lie above it (:data:`netsynth.limits.ABSOLUTE_ZERO_C`)
+ABSOLUTE_ZERO_C = limits.ABSOLUTE_ZERO_C
+#: °C; the practical ceiling on a temperature argument (:data:`netsynth.limits.MAX_TEMP_C`, reason there)
+MAX_TEMP_C = limits.MAX_TEMP_C
 
 # a plain decimal number, optionally signed, with an optional exponent: "0.001", "1e-3"
 _PLAIN_NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?")
@@ -80,8 +77,33 @@ def _is_number(x: object) -> bool:
     return isinstance(x, numbers.Real) and not isinstance(x, bool)
 
 
+def _shown(x: object) -> str:
+    """A short repr of an argument for a message (a huge int has no repr in Python 3.11+)."""
+    try:
+        return limits.excerpt(repr(x))
+    except ValueError:
+        return f"<a {x.bit_length()}-bit integer>" if isinstance(x, int) else f"<a {type(x).__name__}>"
+
+
+def _float(x: object) -> float:
+    """``float(x)`` of a real number, with ±inf where it overflows (a huge int or Fraction)."""
+    try:
+        return float(x)  # type: ignore[arg-type]
+    except OverflowError:
+        return math.inf if x > 0 else -math.inf  # type: ignore[operator]
+
+
 def _wrong_type(name: str, x: object, expected: str) -> ArgumentError:
-    return ArgumentError(f"{name}={x!r}: expected {expected}, not {type(x).__name__}")
+    return ArgumentError(f"{name}={_shown(x)}: expected {expected}, not {type(x).__name__}")
+
+
+def _short_text(name: str, x: str) -> str:
+    """`x` stripped; refused (one short line) when longer than any value's spelling."""
+    s = x.strip()
+    if len(s) > limits.MAX_VALUE_CHARS:
+        raise ValueParseError(f"{name}: cannot read '{limits.excerpt(s)}': a value is written in at most "
+                              f"{limits.MAX_VALUE_CHARS} characters; this text has {len(s)}")
+    return s
 
 
 def _read(name: str, text: str, parse: Callable[[str], float]) -> float:
@@ -112,7 +134,8 @@ def as_ohms(x: float | str, name: str = "target") -> float:
     ValueParseError
         If the text cannot be read (or reads as zero, negative or overflowing).
     ArgumentError
-        If `x` is a bool or another type, or a number that is not finite and above zero.
+        If `x` is a bool or another type, or a number outside 1 µΩ .. 1 TΩ
+        (:data:`netsynth.limits.MIN_OHMS`, :data:`netsynth.limits.MAX_OHMS`).
 
     Examples
     --------
@@ -127,9 +150,11 @@ def as_ohms(x: float | str, name: str = "target") -> float:
         return _read(name, x, parse_resistance)
     if not _is_number(x):
         raise _wrong_type(name, x, "a resistance in ohms (a number, or text such as '4k7')")
-    ohms = float(x)
+    ohms = _float(x)
     if not (ohms > 0 and math.isfinite(ohms)):
-        raise ArgumentError(f"{name}={x!r}: must be a finite resistance above zero, in ohms")
+        raise ArgumentError(f"{name}={_shown(x)}: must be a finite resistance above zero, in ohms")
+    if not limits.MIN_OHMS <= ohms <= limits.MAX_OHMS:
+        raise ArgumentError(f"{name}={_shown(x)}: must be a resistance from {limits.OHMS_RANGE}")
     return ohms
 
 
@@ -137,17 +162,19 @@ def _as_fraction(x: object, name: str, parse: Callable[[str], float], what: str,
     if x is None:
         return None
     if isinstance(x, str):
-        if _PLAIN_NUMBER.fullmatch(x.strip()):
+        if _PLAIN_NUMBER.fullmatch(_short_text(name, x)):
             x = float(x)  # a bare number is a fraction in the Python API, as a float would be
         else:
             return _read(name, x, parse)
     if not _is_number(x):
         raise _wrong_type(name, x, f"{what} as a fraction (0.001 = 0.1 %) or text such as '0.1%' or '50ppm'")
-    value = float(x)
+    value = _float(x)
     if not (value >= 0 and math.isfinite(value)):
-        raise ArgumentError(f"{name}={x!r}: {what} is a finite fraction of 0 or more (0.001 = 0.1 %)")
+        raise ArgumentError(f"{name}={_shown(x)}: {what} is a finite fraction of 0 or more (0.001 = 0.1 %)")
     if below_one and value >= 1:
-        raise ArgumentError(f"{name}={x!r}: {what} is a fraction below 1 (100 %)")
+        raise ArgumentError(f"{name}={_shown(x)}: {what} is a fraction below 1 (100 %)")
+    if 0 < value < limits.MIN_FRACTION:
+        raise ArgumentError(f"{name}={_shown(x)}: {what} is 0, or from {limits.FRACTION_RANGE}")
     return value
 
 
@@ -298,7 +325,7 @@ def as_count(x: int | None, name: str, low: int = 1, high: int | None = None) ->
     n = int(x)
     if n < low or high is not None and n > high:
         span = f"of at least {low}" if high is None else f"from {low} to {high}"
-        raise ArgumentError(f"{name}={x!r}: must be a whole number {span}")
+        raise ArgumentError(f"{name}={_shown(x)}: must be a whole number {span}")
     return n
 
 
@@ -336,21 +363,21 @@ def as_temp_c(x: float | str | None, name: str) -> float | None:
     if x is None:
         return None
     if isinstance(x, str):
-        m = _TEMP_C.fullmatch(x.strip())
+        m = _TEMP_C.fullmatch(_short_text(name, x))
         if not m:
-            raise ValueParseError(f"{name}: cannot read {x.strip()!r}: expected a temperature in °C "
+            raise ValueParseError(f"{name}: cannot read '{limits.excerpt(x.strip())}': expected a temperature in °C "
                                   "such as 85, -40, 85C or 85 °C")
         value = float(m["num"])
     elif _is_number(x):
-        value = float(x)
+        value = _float(x)
     else:
         raise _wrong_type(name, x, "a temperature in °C (a number, or text such as '85C')")
     if math.isnan(value):
-        raise ArgumentError(f"{name}={x!r}: expected a temperature in °C, not NaN")
+        raise ArgumentError(f"{name}={_shown(x)}: expected a temperature in °C, not NaN")
     if not value > ABSOLUTE_ZERO_C:
-        raise ArgumentError(f"{name}={x!r}: must be above absolute zero ({ABSOLUTE_ZERO_C:g} °C)")
+        raise ArgumentError(f"{name}={_shown(x)}: must be above absolute zero ({ABSOLUTE_ZERO_C:g} °C)")
     if value > MAX_TEMP_C:
-        raise ArgumentError(f"{name}={x!r}: must be at most {MAX_TEMP_C:g} °C, beyond any resistor's "
+        raise ArgumentError(f"{name}={_shown(x)}: must be at most {MAX_TEMP_C:g} °C, beyond any resistor's "
                             "rating (is it in kelvin?)")
     return value
 
@@ -389,14 +416,17 @@ def as_factor(x: float | str | None, name: str) -> float | None:
     if x is None:
         return None
     if isinstance(x, str):
-        m = _FACTOR.fullmatch(x.strip())
+        m = _FACTOR.fullmatch(_short_text(name, x))
         if not m:
-            raise ValueParseError(f"{name}: cannot read {x.strip()!r}: expected a fraction such as 0.5 or 50%")
+            raise ValueParseError(f"{name}: cannot read '{limits.excerpt(x.strip())}': expected a fraction such as 0.5 or 50%")
         value = float(f"{m['num']}e{-2 if m['pct'] else 0}")  # one correctly rounded conversion
     elif _is_number(x):
-        value = float(x)
+        value = _float(x)
     else:
         raise _wrong_type(name, x, "a fraction such as 0.5, or text such as '50%'")
     if not 0 < value <= 1:
-        raise ArgumentError(f"{name}={x!r}: a derating factor is a fraction above 0 and at most 1 (100 %)")
+        raise ArgumentError(f"{name}={_shown(x)}: a derating factor is a fraction above 0 and at most 1 (100 %)")
+    if value < limits.MIN_DERATE:
+        raise ArgumentError(f"{name}={_shown(x)}: a derating factor is at least {limits.MIN_DERATE:g} (1 %); "
+                            "a smaller margin asks for a different part")
     return value

@@ -22,6 +22,12 @@ Map of the module
     which knows nothing of series/parallel rules.
 
 Formulas: series R = ΣRᵢ; parallel R = 1 / Σ(1/Rᵢ) (Ohm's and Kirchhoff's laws).
+
+Limits (:mod:`netsynth.limits`): a part is 1 µΩ .. 1 TΩ; a tree holds at most
+:data:`~netsynth.limits.MAX_PARTS` parts and :data:`~netsynth.limits.MAX_LEVELS` series/parallel
+levels. Every node checks them when it is built (``Series`` and ``Parallel`` keep their part
+count and depth, so the check is O(children)), so no tree beyond them exists and the
+recursive walks of this module and of the renderers stay far below Python's recursion limit.
 """
 
 from __future__ import annotations
@@ -29,11 +35,13 @@ from __future__ import annotations
 import math
 import re
 from collections.abc import Callable, Iterable
-from dataclasses import dataclass
+import numbers
+from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import TypeVar, Union
 
-from netsynth.errors import ValueParseError
+from netsynth import limits
+from netsynth.errors import ArgumentError, ValueParseError
 from netsynth.nodal import Edge
 from netsynth.stock import StockItem, bin_order
 from netsynth.values import parse_resistance, to_code
@@ -55,24 +63,76 @@ class Part:
     line: StockItem | None = None
 
     def __post_init__(self) -> None:
+        if isinstance(self.ohms, bool) or not isinstance(self.ohms, numbers.Real):
+            raise ArgumentError(f"ohms={limits.excerpt(repr(self.ohms))}: a part's resistance is a number of ohms, "
+                                f"not {type(self.ohms).__name__}")
         if not (self.ohms > 0 and self.ohms != float("inf")):
             raise ValueParseError(f"ohms={self.ohms!r}: a part's resistance must be a finite value above zero")
+        if not limits.MIN_OHMS <= self.ohms <= limits.MAX_OHMS:
+            raise ArgumentError(f"ohms={self.ohms!r}: a part's resistance must be from {limits.OHMS_RANGE}")
         if self.line is not None and not math.isclose(self.line.ohms, self.ohms, rel_tol=1e-12):
             raise ValueParseError(f"part of {self.ohms!r} Ω tied to a stock line of {self.line.ohms!r} Ω")
 
 
+def _check_group(group: Series | Parallel) -> None:
+    """Type-check a group's children and record its part count and depth, within the limits.
+
+    Raises ArgumentError when the group would hold more than MAX_PARTS parts or nest deeper than
+    MAX_LEVELS: the check is at the one place every tree is built, so no walk ever meets a
+    deeper one (see the module docstring).
+    """
+    kind = type(group).__name__
+    kids = group.children
+    if not isinstance(kids, tuple) or not kids:
+        raise ArgumentError(f"{kind}(children={limits.excerpt(repr(kids))}): expected a non-empty tuple of "
+                            "networks; build groups with series() and parallel()")
+    parts, deepest = 0, 0
+    for kid in kids:
+        if isinstance(kid, Part):
+            parts += 1
+        elif isinstance(kid, (Series, Parallel)):
+            parts += kid.parts
+            deepest = max(deepest, kid.levels)
+        else:
+            raise ArgumentError(f"{kind} child {limits.excerpt(repr(kid))}: expected a Part, Series or Parallel")
+    if parts > limits.MAX_PARTS:
+        raise ArgumentError(f"a network of {parts} parts: netsynth takes networks of up to {limits.MAX_PARTS} parts")
+    if deepest + 1 > limits.MAX_LEVELS:
+        raise ArgumentError(f"a network nested more than {limits.MAX_LEVELS} series/parallel levels deep: "
+                            f"netsynth takes up to {limits.MAX_LEVELS}")
+    object.__setattr__(group, "parts", parts)
+    object.__setattr__(group, "levels", deepest + 1)
+
+
 @dataclass(frozen=True, slots=True)
 class Series:
-    """Children in series; build with :func:`series` to get the canonical form."""
+    """Children in series; build with :func:`series` to get the canonical form.
+
+    ``parts`` and ``levels`` (the part count and the depth, a part being level 0) are
+    computed when the node is built; they take no part in equality or hashing.
+    """
 
     children: tuple[Network, ...]
+    parts: int = field(default=0, init=False, repr=False, compare=False)
+    levels: int = field(default=0, init=False, repr=False, compare=False)
+
+    def __post_init__(self) -> None:
+        _check_group(self)
 
 
 @dataclass(frozen=True, slots=True)
 class Parallel:
-    """Children in parallel; build with :func:`parallel` to get the canonical form."""
+    """Children in parallel; build with :func:`parallel` to get the canonical form.
+
+    ``parts`` and ``levels`` as for :class:`Series`.
+    """
 
     children: tuple[Network, ...]
+    parts: int = field(default=0, init=False, repr=False, compare=False)
+    levels: int = field(default=0, init=False, repr=False, compare=False)
+
+    def __post_init__(self) -> None:
+        _check_group(self)
 
 
 Network = Union[Part, Series, Parallel]
@@ -158,8 +218,13 @@ def exact_resistance(net: Network) -> Fraction:
 
 
 def part_count(net: Network) -> int:
-    """How many parts the network uses."""
-    return fold(net, lambda p: 1, sum, sum)
+    """How many parts the network uses (kept by each group when it is built)."""
+    return 1 if isinstance(net, Part) else net.parts
+
+
+def levels(net: Network) -> int:
+    """Series/parallel levels of the tree: 0 for a part, one more than the deepest child for a group."""
+    return 0 if isinstance(net, Part) else net.levels
 
 
 def value_network(net: Network) -> Network:
@@ -199,9 +264,12 @@ def _concat(lists: list[list[float]]) -> list[float]:
 # MAX_TEXT_DEPTH, with one short line: the parser keeps its own stack and never recurses.
 
 #: the most parts :func:`from_text` builds, repeats multiplied out (``10001p(1k)`` is refused)
-MAX_TEXT_PARTS = 10_000
-#: the deepest nesting of parentheses (a repeat's included) :func:`from_text` reads
-MAX_TEXT_DEPTH = 100
+MAX_TEXT_PARTS = limits.MAX_PARTS
+#: the deepest nesting of parentheses (a repeat's included) :func:`from_text` reads; the tree it
+#: builds may also have at most :data:`netsynth.limits.MAX_LEVELS` series/parallel levels
+MAX_TEXT_DEPTH = limits.MAX_NESTING
+#: the longest text :func:`from_text` reads, in characters
+MAX_TEXT_CHARS = limits.MAX_EXPRESSION_CHARS
 #: the most characters of the input, and of one token, quoted in an error message
 _QUOTE_TEXT, _QUOTE_TOKEN = 28, 12
 
@@ -214,7 +282,10 @@ def to_text(net: Network) -> str:
     return joiner.join(to_text(c) if isinstance(c, Part) else f"({to_text(c)})" for c in net.children)
 
 
-_TOKEN = re.compile(r"\s*(\|\||∥|\+|\(|\))\s*")
+# the operators and parentheses; the pieces between them are stripped afterwards (a pattern that
+# swallowed the spaces around an operator, \s*(...)\s*, would rescan a long run of spaces from
+# every position in it: quadratic time on 200 000 spaces)
+_TOKEN = re.compile(r"(\|\||∥|\+|\(|\))")
 _REPEAT = re.compile(r"(\d+)([sp])")
 _OPERATORS = ("+", "||", "∥")
 _EXPECTED = "a value (4k7, 0R47), a repeat (3s(1k), 3p(1k)), '+', '||' or a parenthesis"
@@ -248,7 +319,9 @@ def from_text(text: str) -> Network:
         One line, quoting at most about 40 characters of the input: on an unreadable
         value or token, unbalanced parentheses, an operator without a part beside it,
         ``+`` and ``||`` mixed at one level, a repeat count below 2, more than
-        :data:`MAX_TEXT_PARTS` parts, or parentheses nested deeper than :data:`MAX_TEXT_DEPTH`.
+        :data:`MAX_TEXT_PARTS` parts, parentheses nested deeper than :data:`MAX_TEXT_DEPTH`
+        (or a tree of more than :data:`netsynth.limits.MAX_LEVELS` levels), text longer than
+        :data:`MAX_TEXT_CHARS`, or a value outside 1 µΩ .. 1 TΩ.
 
     Examples
     --------
@@ -283,17 +356,27 @@ def from_text(text: str) -> Network:
 
     def close(level: _Level) -> tuple[Network, int]:
         net = level.items[0]
-        if level.op is not None:
-            net = series(*level.items) if level.op == "+" else parallel(*level.items)
         parts = level.parts
         if level.repeat is not None:
-            n, kind = level.repeat
-            parts *= n
+            parts *= level.repeat[0]
             if parts > MAX_TEXT_PARTS:
                 raise fail(too_many)
-            net = series(*[net] * n) if kind == "s" else parallel(*[net] * n)
+        try:
+            if level.op is not None:
+                net = series(*level.items) if level.op == "+" else parallel(*level.items)
+            if level.repeat is not None:
+                n, kind = level.repeat
+                net = series(*[net] * n) if kind == "s" else parallel(*[net] * n)
+        except ArgumentError as exc:  # the tree's own limits: parts are counted above, so its depth
+            raise fail(f"nested more than {limits.MAX_LEVELS} series/parallel levels deep") from exc
         return net, parts
 
+    if not isinstance(text, str):
+        raise ValueParseError(f"cannot read a network from {type(text).__name__}: expected text such as "
+                              "'1k + (2k2 || 4k7)'")
+    if len(text) > MAX_TEXT_CHARS:
+        raise fail(f"the text is {len(text)} characters long; netsynth reads networks of up to "
+                   f"{MAX_TEXT_CHARS} characters")
     pieces = [p.strip() for p in _TOKEN.split(text) if p is not None and p.strip() != ""]
     if not pieces:
         raise fail("it is empty")

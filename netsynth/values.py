@@ -58,11 +58,13 @@ import re
 from decimal import ROUND_HALF_UP, Decimal
 from fractions import Fraction
 
+from netsynth import limits
 from netsynth.errors import ValueParseError
 
 __all__ = [
     "format_error",
     "format_ohms",
+    "format_quantity",
     "parse_power",
     "parse_range",
     "parse_ratio",
@@ -82,17 +84,48 @@ _SUFFIX_RE = re.compile(
 )
 _INFIX_RE = re.compile(r"(?P<sign>[+-]?)(?P<int>\d*)(?P<letter>[RrmkKMG])(?P<frac>\d+)")
 _EXPECT_OHMS = "expected a resistance such as 4k7, 4.7k, 470R, R47 or 1M"
+_EXAMPLES = {"a resistance": "4k7", "a tolerance": "1%", "an accuracy": "0.1%", "a power rating": "0.25W",
+             "a voltage": "200V", "a current": "2A", "a duty cycle": "10%", "a temperature coefficient": "100ppm",
+             "a range": "10..1M"}
 
 
 def _fail(text: str, reason: str) -> ValueParseError:
-    return ValueParseError(f"cannot read '{text}': {reason}")
+    return ValueParseError(f"cannot read '{limits.excerpt(text)}': {reason}")
 
 
-def _checked(text: str, value: float, sign: str, what: str, *, zero_ok: bool = False) -> float:
-    """Reject negative, zero (unless allowed) and overflowing values."""
+def _text(text: object, what: str) -> str:
+    """`text` stripped, refused when it is not a string or longer than any value's spelling.
+
+    The length check comes before any regular expression sees the text, so a hostile
+    megabyte of digits costs nothing (and never reaches a pattern that could backtrack).
+    """
+    if not isinstance(text, str):
+        raise ValueParseError(f"cannot read {what} from {type(text).__name__}: expected text such as {_EXAMPLES.get(what, '4k7')}")
+    s = text.strip()
+    if len(s) > limits.MAX_VALUE_CHARS:
+        raise _fail(s, f"{what} is written in at most {limits.MAX_VALUE_CHARS} characters; "
+                       f"this text has {len(s)}")
+    return s
+
+
+_OHMS_SPAN = (limits.MIN_OHMS, limits.MAX_OHMS, limits.OHMS_RANGE)
+
+
+def _checked(text: str, value: float, sign: str, what: str, *, zero_ok: bool = False,
+             span: tuple[float, float, str] | None = None) -> float:
+    """Reject negative, zero (unless allowed) and overflowing values, and values outside `span`.
+
+    `span` is ``(low, high, text)`` from :mod:`netsynth.limits`; a value that overflowed to
+    infinity or underflowed to zero from non-zero digits is outside it too.
+    """
     if sign == "-" and value != 0 or value == 0 and not zero_ok:
-        raise _fail(text, f"{what} must be {'zero or more' if zero_ok else 'greater than zero'}")
-    if not math.isfinite(value):
+        if span is None or sign == "-" or not re.search(r"[1-9]", text.partition("e")[0].partition("E")[0]):
+            raise _fail(text, f"{what} must be {'zero or more' if zero_ok else 'greater than zero'}")
+    if span is not None:
+        low, high, words = span
+        if not (low <= value <= high) and not (zero_ok and value == 0 and sign != "-"):
+            raise _fail(text, f"{what} must be from {words}")
+    elif not math.isfinite(value):
         raise _fail(text, "the number is too large; use a value below 1e308")
     return value
 
@@ -113,7 +146,9 @@ def parse_resistance(text: str) -> float:
     Raises
     ------
     ValueParseError
-        On empty text, garbage, a decimal comma, zero, a negative value or overflow.
+        On empty text, garbage, a decimal comma, zero, a negative value, or a value outside
+        :data:`netsynth.limits.MIN_OHMS` .. :data:`netsynth.limits.MAX_OHMS` (1 µΩ .. 1 TΩ);
+        also on text longer than :data:`netsynth.limits.MAX_VALUE_CHARS`.
 
     References
     ----------
@@ -128,7 +163,7 @@ def parse_resistance(text: str) -> float:
     ...
     netsynth.errors.ValueParseError: cannot read '4,7k': use a point for decimals (4.7k) or the RKM code (4k7); a comma is the CSV field separator
     """
-    s = text.strip()
+    s = _text(text, "a resistance")
     if not s:
         raise ValueParseError(f"cannot read an empty value: {_EXPECT_OHMS}")
     if "," in s:
@@ -141,7 +176,7 @@ def parse_resistance(text: str) -> float:
         number = f"{m['int'] or 0}.{m['frac']}e{_LETTER_EXP[m['letter']]}"
     else:
         raise _fail(s, _EXPECT_OHMS)
-    return _checked(s, float(number), m["sign"], "a resistance")
+    return _checked(s, float(number), m["sign"], "a resistance", span=_OHMS_SPAN)
 
 
 def _comma_error(s: str) -> ValueParseError:
@@ -227,9 +262,40 @@ def format_ohms(ohms: float, digits: int = 4) -> str:
     if not math.isfinite(ohms) or ohms == 0:
         return f"{ohms:g} Ω"
     r = _round_sig(Decimal(repr(float(ohms))), digits)
+    if not -6 <= r.adjusted() <= 14:  # more than three zeros beyond the prefixes: engineering exponent
+        return f"{_engineering(r)} Ω"
     e3 = min(max(r.adjusted() // 3 * 3, -3), 9)
     prefix = {-3: "m", 0: "", 3: "k", 6: "M", 9: "G"}[e3]
     return f"{format(r.scaleb(-e3).normalize(), 'f')} {prefix}Ω"
+
+
+def _engineering(d: Decimal) -> str:
+    """``d`` as mantissa and an exponent that is a multiple of 3: ``1.5e-09``, ``-22e+15``."""
+    e3 = d.adjusted() // 3 * 3
+    return f"{format(d.scaleb(-e3).normalize(), 'f')}e{e3:+03d}"
+
+
+def format_quantity(x: float, unit: str, digits: int = 4) -> str:
+    """Write a quantity for people: SI prefix from p to T, ``digits`` significant digits.
+
+    Outside the prefixes (or not finite) an engineering exponent is used, so the text stays
+    short whatever the magnitude.
+
+    Examples
+    --------
+    >>> format_quantity(24.0, "V"), format_quantity(1.5e-12, "A"), format_quantity(0.0002512, "W", 3)
+    ('24 V', '1.5 pA', '251 µW')
+    >>> format_quantity(3e20, "W")
+    '300e+18 W'
+    """
+    if not math.isfinite(x) or x == 0:
+        return f"{x:g} {unit}"
+    r = _round_sig(Decimal(repr(float(x))), digits)
+    e3 = r.adjusted() // 3 * 3
+    prefix = {-12: "p", -9: "n", -6: "\u00b5", -3: "m", 0: "", 3: "k", 6: "M", 9: "G", 12: "T"}.get(e3)
+    if prefix is None:
+        return f"{_engineering(r)} {unit}"
+    return f"{format(r.scaleb(-e3).normalize(), 'f')} {prefix}{unit}"
 
 
 def format_error(rel: float, digits: int = 3) -> str:
@@ -253,7 +319,9 @@ def format_error(rel: float, digits: int = 3) -> str:
         return str(rel)
     d = Decimal(repr(float(rel)))
     value, unit = (d.scaleb(2), "%") if abs(d) >= Decimal("1e-3") else (d.scaleb(6), "ppm")
-    text = format(_round_sig(value, digits).normalize(), "f")
+    rounded = _round_sig(value, digits)
+    # beyond a million % (or below 1e-6 ppm) an exponent keeps the text short
+    text = _engineering(rounded) if not -6 <= rounded.adjusted() <= 6 else format(rounded.normalize(), "f")
     return f"{'+' if rel > 0 else ''}{text} {unit}"
 
 
@@ -270,7 +338,7 @@ _FRACTION_RE = re.compile(rf"{_SIGN}{_NUM}(?P<exp>[eE][+-]?\d+)?\s*(?P<unit>%|(?
 
 
 def _parse_fraction(text: str, what: str, *, letters: bool) -> float:
-    s = text.strip()
+    s = _text(text, what)
     if letters and s.upper() in _TOLERANCE_LETTERS:
         return _TOLERANCE_LETTERS[s.upper()]
     example = "1%, 0.1 %, 50ppm" + (" or a letter such as F" if letters else "")
@@ -286,6 +354,8 @@ def _parse_fraction(text: str, what: str, *, letters: bool) -> float:
     _checked(s, value, m["sign"], what, zero_ok=True)
     if value >= 1:
         raise _fail(s, f"{what} must be below 100 %")
+    if 0 < value < limits.MIN_FRACTION or value == 0 and re.search(r"[1-9]", m["num"]):
+        raise _fail(s, f"{what} is 0, or from {limits.FRACTION_RANGE}")
     return value
 
 
@@ -341,17 +411,21 @@ _VOLTAGE_RE = re.compile(_QUANTITY.format(unit="[Vv]"))
 _CURRENT_RE = re.compile(_QUANTITY.format(unit="[A]"))
 
 
-def _parse_quantity(text: str, pattern: re.Pattern[str], what: str, examples: str) -> float:
-    s = text.strip()
+def _parse_quantity(text: str, pattern: re.Pattern[str], what: str, examples: str,
+                    span: tuple[float, float, str]) -> float:
+    s = _text(text, what)
     m = pattern.fullmatch(s)
     if not m or m["den"] == "0" or m["den"] and m["exp"]:
         raise _fail(s, f"expected {what} such as {examples}")
-    exp = {"m": -3, "k": 3, "K": 3}.get(m["prefix"], 0)
-    try:
-        value = float(Fraction(m["num"] + (m["exp"] or "")) / int(m["den"] or 1) * Fraction(10) ** exp)
-    except OverflowError:
-        value = math.inf
-    return _checked(s, value, m["sign"], what)
+    exp = {"m": -3, "k": 3, "K": 3}.get(m["prefix"], 0) + int(m["exp"][1:] if m["exp"] else 0)
+    if abs(exp) > 400:  # far outside every range; Fraction would build a 10**exp of that many digits
+        value = 0.0 if exp < 0 else math.inf
+    else:
+        try:
+            value = float(Fraction(m["num"]) / int(m["den"] or 1) * Fraction(10) ** exp)
+        except OverflowError:  # beyond float range (1e309): outside every range
+            value = math.inf
+    return _checked(s, value, m["sign"], what, span=span)
 
 
 def parse_power(text: str) -> float:
@@ -372,7 +446,8 @@ def parse_power(text: str) -> float:
     >>> parse_power('1/4W'), parse_power('250mW')
     (0.25, 0.25)
     """
-    return _parse_quantity(text, _POWER_RE, "a power rating", "0.25W, 1/4W or 250mW")
+    return _parse_quantity(text, _POWER_RE, "a power rating", "0.25W, 1/4W or 250mW",
+                           (limits.MIN_WATTS, limits.MAX_WATTS, limits.WATTS_RANGE))
 
 
 def parse_voltage(text: str) -> float:
@@ -388,7 +463,8 @@ def parse_voltage(text: str) -> float:
     >>> parse_voltage('1.5 kV')
     1500.0
     """
-    return _parse_quantity(text, _VOLTAGE_RE, "a voltage", "200V, 500 V or 1kV")
+    return _parse_quantity(text, _VOLTAGE_RE, "a voltage", "200V, 500 V or 1kV",
+                           (limits.MIN_VOLTS, limits.MAX_VOLTS, limits.VOLTS_RANGE))
 
 
 def parse_current(text: str) -> float:
@@ -399,7 +475,8 @@ def parse_current(text: str) -> float:
     >>> parse_current('150mA'), parse_current('2 A')
     (0.15, 2.0)
     """
-    return _parse_quantity(text, _CURRENT_RE, "a current", "2A, 1.5 A or 150mA")
+    return _parse_quantity(text, _CURRENT_RE, "a current", "2A, 1.5 A or 150mA",
+                           (limits.MIN_AMPS, limits.MAX_AMPS, limits.AMPS_RANGE))
 
 
 def parse_duty(text: str) -> float:
@@ -410,13 +487,16 @@ def parse_duty(text: str) -> float:
     >>> parse_duty('10%'), parse_duty('0.25'), parse_duty('100%')
     (0.1, 0.25, 1.0)
     """
-    s = text.strip()
+    s = _text(text, "a duty cycle")
     m = re.fullmatch(rf"{_NUM}\s*(?P<pct>%)?", s)
     if not m:
         raise _fail(s, "expected a duty cycle such as 10% or 0.1")
     value = float(Fraction(m["num"]) / (100 if m["pct"] else 1))
     if not 0 < value <= 1:
         raise _fail(s, "a duty cycle is above 0 and at most 100 %")
+    if value < limits.MIN_DUTY:
+        raise _fail(s, f"a duty cycle must be from {limits.DUTY_RANGE}; a single short pulse is "
+                       "the part maker's pulse-load curve, not modelled here")
     return value
 
 
@@ -440,11 +520,15 @@ def parse_tcr(text: str) -> float:
     >>> parse_tcr('±50 ppm/K'), parse_tcr('-25ppm/°C')
     (50.0, 25.0)
     """
-    s = text.strip()
+    s = _text(text, "a temperature coefficient")
     m = _TCR_RE.fullmatch(s)
     if not m:
         raise _fail(s, "expected a temperature coefficient such as 100, 50ppm or ±25 ppm/K")
-    return _checked(s, float(m["num"]), "", "a temperature coefficient", zero_ok=True)
+    tcr = _checked(s, float(m["num"]), "", "a temperature coefficient", zero_ok=True,
+                   span=(0.0, limits.MAX_TCR_PPM, limits.TCR_RANGE))
+    if 0 < tcr < limits.MIN_TCR_PPM:
+        raise _fail(s, f"a temperature coefficient is {limits.TCR_RANGE}")
+    return tcr
 
 
 def parse_range(text: str) -> tuple[float, float]:
@@ -460,7 +544,9 @@ def parse_range(text: str) -> tuple[float, float]:
     >>> parse_range('10..1M')
     (10.0, 1000000.0)
     """
-    s = text.strip()
+    if isinstance(text, str) and len(text.strip()) > 2 * limits.MAX_VALUE_CHARS + 2:
+        raise _fail(text.strip(), f"a range is written in at most {2 * limits.MAX_VALUE_CHARS + 2} characters")
+    s = _text(text, "a range") if not isinstance(text, str) else text.strip()
     low_text, dots, high_text = s.partition("..")
     if not dots:
         raise _fail(s, "expected a range LOW..HIGH such as 10..1M")

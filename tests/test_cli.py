@@ -185,7 +185,9 @@ def test_check_text_has_per_part_table(runner):
     lines = result.output.splitlines()
     assert lines[0] == "Network: 1k + (2k2 || 4k7)  (3 parts)"
     assert any(line.split()[:2] == ["parts", "value"] for line in lines)
-    assert any("A ──[1k]──┬─[2k2]─┬── B" in line for line in lines)
+    # 24 V across 1k + (2k2 || 4k7) = 2498.55 Ω: 9.61 mA, 0.092 W in the 1k; 14.39 V and 0.094 W on the 2k2
+    # (Ohm's law, P = I²R = V²/R, hand arithmetic)
+    assert any("A ──[1k 0.092W]──┬─[2k2 0.094W]─┬── B" in line for line in lines)
 
 
 def test_check_yield_and_temperature(runner):

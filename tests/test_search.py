@@ -148,6 +148,112 @@ def test_search_equals_brute_force_on_random_bins(values, count_choices, target)
             assert abs(abs(found[0].error) - float(expected)) <= 1e-12
 
 
+DEPTH_CASES = [
+    # (values, counts, target, k, table depth): every depth of the recursion against the brute force,
+    # targets inside, below and above the bin's span, limited and unlimited counts (small invented bins)
+    ([100, 220, 470, 1000], [None, None, None, None], 337, 5, 2),
+    ([100, 220, 470, 1000], [1, 1, 1, 1], 337, 5, 2),      # every value once: the limited search
+    ([10, 47, 150], [1, 2, None], 31, 5, 2),
+    ([10, 47, 150], [None, None, None], 2.2, 5, 2),        # below the smallest value: parallel banks
+    ([10, 47, 150], [2, 1, 2], 900, 5, 2),                 # above all the bin holds: 2×10 + 47 + 2×150 = 367
+    ([10, 47, 150], [None, None, None], 88, 3, 1),         # one-part tables only
+    ([1, 2, 5], [2, 2, 2], 3.3, 6, 3),                     # six parts from three-part tables
+    ([22, 33], [None, None], 27.5, 6, 3),
+    ([100, 330], [3, 3], 1000, 6, 3),
+]
+
+
+@pytest.mark.parametrize("values, counts, target, k, depth", DEPTH_CASES)
+def test_every_table_depth_equals_brute_force(values, counts, target, k, depth):
+    # reference: the brute-force enumerator above; the table depth is forced, so the recursion,
+    # the canonical splits and the pruning are exercised at every level, not only the tables
+    search = ExactSearch([float(v) for v in values], counts, k, table_parts=depth)
+    target_q = Fraction(str(target))
+    for n in range(1, k + 1):
+        found = search.best(n, float(target), alternatives=3)
+        expected = brute_force_best(values, counts, n, target_q)
+        if expected is None:
+            assert found == []
+            continue
+        got = found[0]
+        assert part_count(got.network) == n
+        assert abs(float(abs(exact_resistance(got.network) / target_q - 1)) - float(expected)) <= 1e-12
+        _assert_alternatives_sound(found, values, counts, n)
+
+
+def _assert_alternatives_sound(found, values, counts, n):
+    errors = [abs(f.error) for f in found]
+    assert errors == sorted(errors), "alternatives ranked by |error|"
+    assert len({round(f.value_ohms, 9) for f in found}) == len(found), "alternatives of distinct values"
+    for f in found:
+        assert part_count(f.network) == n
+        assert abs(float(exact_resistance(f.network)) - f.value_ohms) <= 1e-9 * f.value_ohms
+        used = Counter(part_values(f.network))
+        for v, c in zip(values, counts):
+            assert c is None or used[float(v)] <= c, "the network takes more parts than the bin holds"
+
+
+@settings(max_examples=25, deadline=None)
+@given(
+    values=st.lists(st.integers(1, 60).map(lambda x: x * 10), min_size=1, max_size=4, unique=True),
+    count_choices=st.lists(st.sampled_from([1, 2, 3, None]), min_size=4, max_size=4),
+    target=st.one_of(st.integers(1, 3000), st.fractions(Fraction(1, 10), Fraction(5000))),
+    k=st.sampled_from([4, 5]),
+    deeper=st.booleans(),
+)
+def test_forced_depths_equal_brute_force_on_random_bins(values, count_choices, target, k, deeper):
+    # reference: the brute-force enumerator above; targets anywhere, in or out of the bin's span
+    counts = count_choices[: len(values)]
+    search = ExactSearch([float(v) for v in values], counts, k, table_parts=k // 2 + int(deeper))
+    target_q = Fraction(target)
+    for n in range(1, k + 1):
+        found = search.best(n, float(target_q), alternatives=2)
+        expected = brute_force_best(values, counts, n, target_q)
+        if expected is None:
+            assert found == []
+        else:
+            assert abs(float(abs(exact_resistance(found[0].network) / target_q - 1)) - float(expected)) <= 1e-12
+            _assert_alternatives_sound(found, values, counts, n)
+
+
+def test_lines_of_one_value_are_pooled_then_tied_to_lines():
+    # two limited lines of 100 Ω (1 % and 0.1 %) hold two parts together: the search may take both;
+    # reference: the brute force with the pooled count
+    stock = StockBin((StockItem(100.0, count=1), StockItem(100.0, count=1, tolerance=0.001),
+                      StockItem(220.0, count=1)), name="pooled")
+    rows = search_frontier(420.0, stock, max_parts=3, alternatives=0).rows
+    for row in rows:
+        expected = brute_force_best([100, 220], [2, 1], row.parts, Fraction(420))
+        assert row.proven and abs(abs(row.best.error) - float(expected)) <= 1e-12
+    # 100 + 100 + 220 = 420 exactly (hand arithmetic), one part from each 100 Ω line
+    lines = {p.line.tolerance for p in _parts(rows[2].best.network) if p.ohms == 100.0}
+    assert rows[2].best.error == 0 and lines == {0.01, 0.001}
+
+
+def _parts(net):
+    from netsynth.network import Part
+
+    return [net] if isinstance(net, Part) else [p for c in net.children for p in _parts(c)]
+
+
+def test_cost_model_refuses_before_building_and_its_advice_is_accepted(monkeypatch):
+    import re
+
+    from netsynth.search import exact
+    from netsynth.stock import kit_bin
+
+    values = list(kit_bin("E96", 1.0, 10e6).values)  # 673 values: IEC 60063 E96 over seven decades
+    built = []
+    real = exact._Engine.__init__
+    monkeypatch.setattr(exact._Engine, "__init__", lambda self, *a: built.append(a) or real(self, *a))
+    with pytest.raises(InfeasibleError) as refused:
+        ExactSearch(values, [None] * len(values), 7)
+    assert built == [], "the cost model speaks before any table is built"
+    fits = int(re.search(r"--max-parts (\d+)", str(refused.value)).group(1))
+    assert 1 <= fits < 7
+    ExactSearch(values, [None] * len(values), fits)  # the advice, when followed, is accepted
+
+
 def test_alternatives_are_distinct_and_ranked():
     search = ExactSearch([float(v) for v in (100, 150, 220, 330, 470, 680, 1000)], [None] * 7, 3)
     found = search.best(3, 555.0, alternatives=5)

@@ -354,10 +354,10 @@ items = st.builds(
     StockItem,
     ohms=st.floats(1e-3, 1e12),
     count=st.none() | st.integers(1, 10**6),
-    tolerance=st.floats(0, 0.99),
+    tolerance=st.just(0.0) | st.floats(1e-12, 0.99),  # 0, or within netsynth.limits
     power_rating_w=st.floats(1e-3, 1e4),
     max_volts=st.floats(1e-1, 1e5),
-    tcr_ppm=st.floats(0, 1e4),
+    tcr_ppm=st.just(0.0) | st.floats(1e-6, 1e4),  # 0, or within netsynth.limits
     package=st.sampled_from(["", "0805", "axial"]),
     note=st.text(st.characters(codec="utf-8", exclude_categories=("Cs", "Cc", "Zs", "Zl", "Zp")), max_size=8),
 )

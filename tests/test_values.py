@@ -96,7 +96,7 @@ def test_parse_resistance(text, ohms):
         ("0R0", "a resistance must be greater than zero"),  # zero in RKM
         ("-4k7", "a resistance must be greater than zero"),  # negative
         ("-10", "a resistance must be greater than zero"),  # negative plain
-        ("1e999", "too large"),  # overflows a float
+        ("1e999", "from 1 µΩ to 1 TΩ"),  # overflows a float: outside the accepted range (netsynth.limits)
         (
             "4,7k",
             "cannot read '4,7k': use a point for decimals (4.7k) or the RKM code (4k7); "

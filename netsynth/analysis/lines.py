@@ -25,7 +25,8 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
-from netsynth.analysis.stress import NetworkLoad, network_load, part_stress
+from netsynth.analysis.stress import NetworkLoad, PartLoad, network_load, part_stress
+from netsynth.errors import ArgumentError
 from netsynth.network import Network, Part, Series, parallel, parts_in_order, series
 from netsynth.stock import StockBin, StockItem
 
@@ -96,11 +97,38 @@ def assign_lines(
     parts = parts_in_order(net)
     if point is not None and load is None:
         load = network_load(net, point)
+    tied = tie_parts([p.ohms for p in parts], stock, point, derating, loads=None if load is None else load.parts,
+                     counts_bind=counts_bind, missing_ok=missing_ok)
+    if tied is None:
+        return None
+    chosen, worst, missing, short = tied
+    return Assignment(_with_lines(net, iter(chosen)), worst, missing, short)
+
+
+def tie_parts(
+    values: Sequence[float],
+    stock: StockBin,
+    point: OperatingPoint | None = None,
+    derating: Derating = Derating(),
+    *,
+    loads: Sequence[PartLoad] | None = None,
+    counts_bind: bool = True,
+    missing_ok: bool = False,
+) -> tuple[list[StockItem | None], float | None, tuple[float, ...], tuple[tuple[StockItem, int], ...]] | None:
+    """The rule of :func:`assign_lines` for any list of parts (a netlist's elements, a bridge).
+
+    ``values[i]`` is part i's resistance and ``loads[i]`` (needed with ``point``) what it sees
+    at the operating point. Returns (line of each part, None where the bin lacks the value;
+    headroom; values not in the bin; lines asked for more than they hold), or None as
+    :func:`assign_lines` does.
+    """
+    if point is not None and loads is None:
+        raise ArgumentError("loads=None: with an operating point, give what each part sees (loads)")
     by_value = usable_lines(stock)
     positions: dict[float, list[int]] = {}
-    for i, p in enumerate(parts):
-        positions.setdefault(value_key(p.ohms), []).append(i)
-    chosen: list[StockItem | None] = [None] * len(parts)
+    for i, ohms in enumerate(values):
+        positions.setdefault(value_key(ohms), []).append(i)
+    chosen: list[StockItem | None] = [None] * len(values)
     missing: list[float] = []
     short: list[tuple[StockItem, int]] = []
     worst: float | None = None
@@ -109,9 +137,9 @@ def assign_lines(
         if not lines:
             if not missing_ok:
                 return None
-            missing.append(parts[where[0]].ohms)
+            missing.append(values[where[0]])
             if point is not None:
-                worst = _min(worst, min(part_stress(load.parts[i], StockItem(parts[i].ohms), False, point,
+                worst = _min(worst, min(part_stress(loads[i], StockItem(values[i]), False, point,
                                                     derating).headroom for i in where))
             continue
         caps = [len(where) if line.count is None else line.count for line in lines]
@@ -122,15 +150,13 @@ def assign_lines(
             caps = [len(where)] * len(lines)
         if point is None:
             taken = _fill(len(where), caps)
-            headroom = None
         else:
-            table = [[part_stress(load.parts[i], line, True, point, derating).headroom for line in lines] for i in where]
+            table = [[part_stress(loads[i], line, True, point, derating).headroom for line in lines] for i in where]
             taken, headroom = _bottleneck(table, caps)
             worst = _min(worst, headroom)
         for i, j in zip(where, taken):
             chosen[i] = lines[j]
-    tied = _with_lines(net, iter(chosen))
-    return Assignment(tied, worst, tuple(missing), tuple(short))
+    return chosen, worst, tuple(missing), tuple(short)
 
 
 def _min(a: float | None, b: float) -> float:

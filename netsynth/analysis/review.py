@@ -28,7 +28,7 @@ FAR_BELOW = 0.1
 class Review:
     """One network, analysed. ``stress`` is None without an operating point."""
 
-    network: Network
+    network: Network | None  #: None for a netlist that does not reduce to + and || (a bridge)
     value_ohms: float
     band: ToleranceBand
     monte_carlo: MonteCarlo

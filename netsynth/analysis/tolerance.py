@@ -25,14 +25,14 @@ from __future__ import annotations
 
 import math
 import numbers
-from collections.abc import Sequence
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
 
 from netsynth.errors import ValueParseError
-from netsynth.network import Network, fold, parts_in_order, to_netlist
+from netsynth.network import Network, Part, Series, parts_in_order, to_netlist
 from netsynth.nodal import solve_network
 
 #: quantiles reported by :func:`monte_carlo`: the central 99 % of builds
@@ -43,21 +43,38 @@ HIGH_QUANTILE = 0.995
 # ---------------------------------------------------------------- evaluation
 
 
-def _evaluate(net: Network, leaves: Sequence[Any]) -> Any:
-    """The network's value with ``leaves[i]`` in place of the i-th part (parts_in_order order).
+def _evaluate(net: Network, leaves: Iterable[Any]) -> Any:
+    """The network's value with the i-th leaf in place of the i-th part (parts_in_order order).
 
     Works for floats and for numpy arrays of equal shape (one entry per build):
     series is the sum, parallel the reciprocal of the sum of reciprocals.
-    ``fold`` visits the parts depth first, children left to right, which is the
-    order of ``parts_in_order``, so an iterator hands each part its own leaf.
+    The walk is depth first, children left to right, which is the order of
+    ``parts_in_order``, so an iterator hands each part its own leaf. It streams:
+    each open group keeps one running total (summed left to right, as ``sum`` would),
+    so `leaves` may be a generator and memory is one leaf per level of the tree, not
+    one per part (a 10 000-part Monte Carlo would otherwise hold 10 000 arrays).
     """
     values = iter(leaves)
-    return fold(
-        net,
-        lambda _part: next(values),
-        lambda kids: sum(kids[1:], kids[0]),
-        lambda kids: 1.0 / sum((1.0 / k for k in kids[1:]), 1.0 / kids[0]),
-    )
+    if isinstance(net, Part):
+        return next(values)
+    # one frame per open group: [group, its children not yet visited, running total]
+    stack: list[list[Any]] = [[net, iter(net.children), None]]
+    while True:
+        frame = stack[-1]
+        child = next(frame[1], None)
+        if child is None:
+            stack.pop()
+            value = frame[2] if isinstance(frame[0], Series) else 1.0 / frame[2]
+            if not stack:
+                return value
+        elif isinstance(child, Part):
+            value = next(values)
+        else:
+            stack.append([child, iter(child.children), None])
+            continue
+        outer = stack[-1]
+        term = value if isinstance(outer[0], Series) else 1.0 / value
+        outer[2] = term if outer[2] is None else outer[2] + term
 
 
 def _check_tolerances(net: Network, tolerances: Sequence[float]) -> np.ndarray:
@@ -306,11 +323,11 @@ def sample_values(
     samples = _check_count("samples", samples, 1)
     seed = _check_count("seed", seed, 0)
     rng = np.random.default_rng(seed)
-    ohms = np.array([p.ohms for p in parts_in_order(net)])
-    # one row per part: that part's value in every build
-    factors = rng.uniform(-1.0, 1.0, size=(ohms.size, samples))
-    leaves = ohms[:, None] * (1.0 + t[:, None] * factors)
-    return np.asarray(_evaluate(net, list(leaves)), dtype=float)
+    ohms = [p.ohms for p in parts_in_order(net)]
+    # one row per part: that part's value in every build, drawn part by part (the same stream
+    # as one (parts, samples) draw) and consumed as the walk reaches the part
+    leaves = (ohms[i] * (1.0 + t[i] * rng.uniform(-1.0, 1.0, size=samples)) for i in range(len(ohms)))
+    return np.asarray(_evaluate(net, leaves), dtype=float)
 
 
 def monte_carlo(

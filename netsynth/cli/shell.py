@@ -49,6 +49,7 @@ from netsynth.errors import (
 )
 from netsynth.eseries import SERIES_NAMES
 from netsynth.inputs import as_factor, as_temp_c
+from netsynth.limits import MAX_QTY
 from netsynth.stock import DEFAULT_POWER_W, DEFAULT_TOLERANCE, StockBin, default_bin, kit_bin, load_bin
 from netsynth.values import (
     parse_current,
@@ -150,8 +151,17 @@ def _error_kind(exc: NetsynthError) -> str:
     return next((kind for cls, kind in ERROR_KINDS if isinstance(exc, cls)), "infeasible")
 
 
+#: click's "usage error" that carries the help text of a command given no arguments (click 8.2+)
+_HELP_ERRORS = getattr(click.exceptions, "NoArgsIsHelpError", ())
+#: characters of an error message at most: the library's messages quote short excerpts and stay
+#: well below; this only cuts what click itself may echo back (an unknown option of a megabyte)
+MAX_MESSAGE_CHARS = 400
+
+
 def _one_line(text: str) -> str:
-    return " ".join(line.strip() for line in text.splitlines() if line.strip())
+    line = " ".join(text[: 4 * MAX_MESSAGE_CHARS].split())
+    return line if len(line) <= MAX_MESSAGE_CHARS and len(text) <= 4 * MAX_MESSAGE_CHARS \
+        else line[: MAX_MESSAGE_CHARS - 3] + "..."
 
 
 def _asks_for_json(args: Sequence[str]) -> bool:
@@ -165,7 +175,8 @@ def _asks_for_json(args: Sequence[str]) -> bool:
 
 
 def _json_error(kind: str, message: str) -> None:
-    click.echo(json.dumps({"error": {"kind": kind, "message": _one_line(message)}}, ensure_ascii=False))
+    click.echo(json.dumps({"error": {"kind": kind, "message": _one_line(message)}}, ensure_ascii=False,
+                          allow_nan=False))
 
 
 class Shell(click.Group):
@@ -182,6 +193,9 @@ class Shell(click.Group):
             if as_json:
                 _json_error("usage", exc.format_message())
             else:
+                if not isinstance(exc, _HELP_ERRORS):  # the help shown for a bare command stays whole
+                    full = exc.format_message
+                    exc.format_message = lambda: _one_line(full())  # type: ignore[method-assign]
                 exc.show()
             sys.exit(exc.exit_code)
         except NetsynthError as exc:
@@ -310,8 +324,8 @@ def stock_options(fn: Callable) -> Callable:
                      help="Use a kit of one E-series instead of a bin file (IEC 60063)."),
         click.option("--range", "value_range", type=RANGE, metavar="LOW..HIGH",
                      help="Kit value range, both ends included: 10..1M, 1R..10k, 100..100k (default 10..1M)."),
-        click.option("--qty", type=click.IntRange(min=1), metavar="N",
-                     help="Kit parts per value (default: as many as needed)."),
+        click.option("--qty", type=click.IntRange(min=1, max=MAX_QTY), metavar="N",
+                     help=f"Kit parts per value, 1 to {MAX_QTY} (default: as many as needed)."),
         click.option("--kit-tolerance", type=TOLERANCE, metavar="TOL",
                      help=f"Kit part tolerance: 1%, 0.1 %, or a letter (F = 1 %, B = 0.1 %) "
                      f"(default {DEFAULT_TOLERANCE * 100:g} %, as the default bin)."),
@@ -331,5 +345,11 @@ def json_option(fn: Callable) -> Callable:
 
 
 def echo_json(data: object) -> None:
-    """One JSON document on stdout (UTF-8 text, indented)."""
-    click.echo(json.dumps(data, indent=2, ensure_ascii=False))
+    """One JSON document on stdout (UTF-8 text, indented); strict JSON, never ``NaN`` or ``Infinity``.
+
+    The renderers write ``null`` where a figure is legitimately unbounded (the headroom of a part
+    that sees no stress, the reach of an unlimited bin; see :mod:`netsynth.render.json`), and the
+    limits of :mod:`netsynth.limits` keep every other figure finite; ``allow_nan=False`` makes a
+    non-finite number that slipped through a loud bug instead of output no JSON reader accepts.
+    """
+    click.echo(json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False))

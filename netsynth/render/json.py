@@ -9,6 +9,10 @@ The contract (stable; later work adds keys, never removes these)::
         {"parts": int, "expression": str, "value_ohms": float,
          "error": float,       # signed relative error, value / target - 1
          "verified_ohms": float, "proven": bool, "method": str,
+         "status": str,        # the row's proof: "proven best" (exhaustive), "proven best in family" (CP-SAT
+                               # OPTIMAL), "best found, bound N parts" (CP-SAT FEASIBLE), "best found", "array"
+         "status_note": str,   # a CP-SAT row: its family and what its status promises ("" otherwise)
+         "fewest": bool,       # no network of any shape with fewer parts lands as close within the limits
          "components": [component, ...],   # one per part, in the order of "expression"
          "alternatives": [{"parts", "expression", "value_ohms", "error", "verified_ohms", "components"}],
          "stress": [...],      # only with an operating point, one entry per part (below)
@@ -16,7 +20,7 @@ The contract (stable; later work adds keys, never removes these)::
          "binding": {"factor", "part", "limit": "power"|"voltage", "ohms", "line"}}  # which part sets it
       ],
       "best": {"parts", "expression", "value_ohms", "error", "verified_ohms", "proven", "method", "components"},
-      "pick_list": [{"ohms", "count", "location", "line", "tolerance", "watts", "max_volts"}],  # one per stock line
+      "pick_list": [pick entry, ...],  # one per stock line, in the bin's order (below)
       "operating_point": {...} | null, "derating": {...}, "prefer": str,
       "lower_bound": {"count", "by_power", "by_voltage", "text"} | null,
       "value_parts": int,      # the fewest parts that can reach the target from the bin's values
@@ -29,6 +33,17 @@ The contract (stable; later work adds keys, never removes these)::
       "verification": {"method": str, "rtol": float},
       "seconds": float
     }
+
+    pick entry: {"ohms", "count", "location", "line", "tolerance", "watts", "max_volts",
+                 "rkm": str,               # IEC 60062 RKM code printed on the part: "4K7", "R47", "1M0"
+                 "bands": [str] | null,    # IEC 60062 colour names, first band first: 4 bands for
+                                           # ±5 % and wider, else 5 (the other count when the value
+                                           # needs it); null when the value/tolerance has no colour code
+                 "smd_code": str | null,   # chip digit code: 4 characters for ±1 % and tighter, else 3
+                                           # (the other when the value needs it): "472", "4701", "4R7"
+                 "eia96": str | null}      # EIA-96 code of an E96 value: "01C" = 10 kΩ; null otherwise
+               (every code whatever the line's package; netsynth.render.picklist says which the
+                package calls for on screen)
 
     component: {"ohms", "line", "location", "tolerance", "watts", "max_volts", "tcr_ppm"}
                (the stock line the part is: "line" is the bin file's line number of its first row,
@@ -46,6 +61,15 @@ The contract (stable; later work adds keys, never removes these)::
     {"expression", "value_ohms", "verified_ohms", "worst_case_ohms": [low, high],
      "stress": [...] (with an operating point), plus the review keys and "status"}
 
+    check --netlist FILE: the check keys (for a network that is not series/parallel, "expression"
+    is null, "verified_ohms" is the nodal value and "components"/"stress" follow the file's live
+    elements), plus
+    "netlist": {"file": str, "format": "spice" | "edges", "between": [A, B], "series_parallel": bool,
+                "elements": [{"name", "nodes": [a, b], "ohms", "file_line", "power_share",
+                              "line": int | null, "location"}],   # the parts that can carry current
+                "no_current": [{"name", "reason"}],   # shorted, not connected, dangling, balanced bridge
+                "notes": [str]}                       # how the file was read (M as milli, left out)
+
     review: {"worst_case_ohms": [low, high], "rss_rel", "sigma_rel", "monte_carlo": {...},
              "tcr_ppm", "at_temp": {"temp_c", "low_ohms", "high_ohms"} | null,
              "cautions": [str], "notes": [str], "not_in_bin": [float]}
@@ -59,14 +83,18 @@ from typing import Any
 from netsynth.analysis.conditions import Derating, OperatingPoint
 from netsynth.analysis.review import Review
 from netsynth.analysis.stress import NetworkStress, line_of
-from netsynth.design import Candidate, Design
+from netsynth.design import Candidate, Design, PickLine
 from netsynth.network import Part
 from netsynth.nodal import VERIFY_RTOL
+from netsynth.render.picklist import pick_marking
 
 VERIFICATION = {"method": "nodal analysis (conductance matrix solve)", "rtol": VERIFY_RTOL}
 
 
 def _finite(x: float) -> float | None:
+    """`x`, or None (JSON ``null``) where a figure has no bound: the headroom of a part under no
+    stress, the power share of a part allowed no power at the ambient, the ``high_ohms`` reach of
+    a bin with unlimited parts. The CLI writes strict JSON (no ``NaN`` or ``Infinity``)."""
     return x if math.isfinite(x) else None
 
 
@@ -82,6 +110,14 @@ def component_dict(part: Part) -> dict[str, Any]:
         "max_volts": line.max_volts,
         "tcr_ppm": line.tcr_ppm,
     }
+
+
+def pick_dict(p: PickLine) -> dict[str, Any]:
+    """One pick-list entry: the stock line, how many, and its markings (see the contract above)."""
+    m = pick_marking(p.ohms, p.line.tolerance, p.line.package)
+    return {"ohms": p.ohms, "count": p.count, "location": p.location, "line": p.line.line,
+            "tolerance": p.line.tolerance, "watts": p.line.power_rating_w, "max_volts": p.line.max_volts,
+            "rkm": m.rkm, "bands": list(m.bands) if m.bands else None, "smd_code": m.smd_code, "eia96": m.eia96}
 
 
 def candidate_dict(c: Candidate, proven: bool | None = None, method: str | None = None) -> dict[str, Any]:
@@ -163,6 +199,10 @@ def design_dict(d: Design) -> dict[str, Any]:
     for e in d.frontier:
         row = {**candidate_dict(e.best, e.proven, e.method),
                "alternatives": [candidate_dict(a) for a in e.alternatives]}
+        row["status"] = ("proven best" if e.proven else e.row.status or
+                         ("best found" if e.method == "exhaustive" else "array"))
+        row["status_note"] = e.row.note
+        row["fewest"] = e.row.fewest
         if e.stress is not None:
             row["stress"] = stress_list(e.stress)
             row["headroom"] = _finite(e.stress.headroom)
@@ -177,9 +217,7 @@ def design_dict(d: Design) -> dict[str, Any]:
         "within": d.within,
         "frontier": frontier,
         "best": candidate_dict(d.best, chosen.proven, chosen.method),
-        "pick_list": [{"ohms": p.ohms, "count": p.count, "location": p.location, "line": p.line.line,
-                       "tolerance": p.line.tolerance, "watts": p.line.power_rating_w,
-                       "max_volts": p.line.max_volts} for p in d.pick_list],
+        "pick_list": [pick_dict(p) for p in d.pick_list],
         "operating_point": point_dict(d.point),
         "derating": derating_dict(d.derating),
         "prefer": d.prefer,

@@ -9,9 +9,10 @@ from netsynth.design import Candidate, Design
 from netsynth.nodal import VERIFY_RTOL
 from netsynth.render.compact import LEGEND, compact, is_compacted
 from netsynth.render.diagram import draw
+from netsynth.render.picklist import pick_table
 from netsynth.values import format_error, format_ohms, to_code
 
-#: networks with more parts than this are described, not drawn
+#: networks with more parts than this are written in the compact form (Ns(X), Np(X)); every network is drawn
 DRAW_PARTS = 12
 
 
@@ -27,6 +28,8 @@ def _ppm(error: float) -> str:
     if abs(error) < EXACT:
         return "0"
     ppm = error * 1e6
+    if abs(ppm) >= 1e7:  # a target far out of reach: digits beyond the first few say nothing
+        return f"{ppm:+.3g}"
     return f"{ppm:+.1f}" if abs(ppm) >= 0.1 else f"{ppm:+.2g}"
 
 
@@ -34,6 +37,8 @@ def _pct(error: float) -> str:
     if abs(error) < EXACT:
         return "0"
     pct = error * 100
+    if abs(pct) >= 1e5:
+        return f"{pct:+.3g}"
     return f"{pct:+.4f}" if abs(pct) >= 1e-4 else f"{pct:+.2g}"
 
 
@@ -58,11 +63,42 @@ def table(rows: list[tuple[str, ...]], align: str) -> list[str]:
 def _proof(entry) -> str:
     if entry.proven:
         return "proven best"
+    if entry.row.status:  # a CP-SAT row says what the solver proved
+        return entry.row.status
     return "best found" if entry.method == "exhaustive" else f"array: {entry.method}"
 
 
-def design_text(d: Design, show_alternatives: bool = False) -> str:
-    """The frontier table, the recommended network drawn, its pick list, checks and cautions."""
+def _larger(d: Design) -> str:
+    """What searched the counts above the exhaustive range, from the rows shown."""
+    methods = {e.method for e in d.frontier}
+    cpsat = any(e.method.startswith("cp-sat") or e.row.status for e in d.frontier)
+    arrays = any(m != "exhaustive" and not m.startswith("cp-sat") for m in methods)
+    if cpsat:
+        return "CP-SAT families and regular arrays" if arrays else "CP-SAT families"
+    return "regular arrays"
+
+
+def _proof_notes(d: Design) -> list[str]:
+    """What each CP-SAT row's status promises, and the rows no network of any shape can beat on parts."""
+    out: list[str] = []
+    for e in d.frontier:
+        if e.row.note and f"({e.row.note})" not in out:
+            out.append(f"({e.row.note})")
+    why = d.bound.explain() if d.bound is not None else d.reach.explain()
+    for e in d.frontier:
+        if e.row.fewest:
+            limits = " and keeps every part within its limits" if d.point is not None else ""
+            close = "exactly" if abs(e.best.error) < EXACT else f"within ±{format_error(abs(e.best.error)).lstrip('+')}"
+            out.append(f"Fewest parts: no network of any shape with fewer than {e.parts} parts lands {close}{limits} "
+                       f"({why})")
+    return out
+
+
+def design_text(d: Design, show_alternatives: bool = False, ascii: bool = False) -> str:
+    """The frontier table, the recommended network drawn, its pick list, checks and cautions.
+
+    ``ascii`` draws the network with ``-``, ``+`` and ``|`` only.
+    """
     limit = f"up to {_parts(d.part_limit)}" + ("" if d.max_parts else " (as needed)" if d.point or d.value_parts > 1 else "")
     out = [f"Target {format_ohms(d.target_ohms, 6)}   bin: {d.bin_name}   {limit}"]
     if d.within is not None:
@@ -80,7 +116,7 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
         above = d.exhaustive_parts + 1
         span = f"at {above}" if above == d.part_limit else f"from {above} to {d.part_limit}"
         out.append(
-            f"Exhaustive search up to {d.exhaustive_parts} parts; {span} parts, regular arrays "
+            f"Exhaustive search up to {d.exhaustive_parts} parts; {span} parts, {_larger(d)} "
             "(listed only where they improve on fewer parts)"
         )
     reach = d.reach
@@ -110,11 +146,12 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
     out += table(rows, "rlrrr" + ("r" if stressed else "") + "l")
     if any(is_compacted(c.network) for c in shown):
         out.append(f"({LEGEND})")
+    out += _proof_notes(d)
     b = d.best
     off = "exact" if abs(b.error) < EXACT else format_error(b.error)
     shown_as = compact(b.network) if b.parts > DRAW_PARTS else b.expression
     out += ["", f"Recommended ({d.prefer} first): {shown_as}  =  {format_ohms(b.value_ohms, 6)}  ({off})", ""]
-    out.append(_drawing(b))
+    out.append(_drawing(b, d.review, ascii))
     out.append("")
     if d.within is not None and d.within_met is False:
         out.append(f"Not within ±{format_error(d.within).lstrip('+')}: no network of up to {d.part_limit} parts "
@@ -123,6 +160,11 @@ def design_text(d: Design, show_alternatives: bool = False) -> str:
     out.append(_verified(b))
     if all(e.proven for e in d.frontier):
         out.append("Proven best: no network of that many parts from this bin lands closer (exhaustive search).")
+    elif any(e.row.status for e in d.frontier):
+        out.append(
+            "Rows marked 'in family' are proven by CP-SAT within that family only; rows marked 'best found' or "
+            "'array' are the best the search found, not proven."
+        )
     else:
         out.append(
             "Rows marked 'best found' or 'array' are the best the search found, not proven: with an operating "
@@ -137,19 +179,19 @@ def _watts_text(w: float) -> str:
 
 
 def pick_lines(picks) -> list[str]:
-    """The pick list: one line per stock line, with its ratings, location and bin line number."""
-    rows = [
-        (f"{p.count} ×", to_code(p.ohms), f"±{p.line.tolerance * 100:g} %", _watts_text(p.line.power_rating_w),
-         f"{p.line.max_volts:g} V", p.location or "-", f"line {p.line.line}")
-        for p in picks
-    ]
-    return ["Take from the bin:"] + ["  " + r for r in table(rows, "rllrrll")] if rows else []
+    """The pick list: one line per stock line (ratings, location, bin line), and under it the
+    part's marking per IEC 60062 (:mod:`netsynth.render.picklist` chooses the codes)."""
+    entries = pick_table(picks)
+    out = ["Take from the bin:"] if entries else []
+    for row, (_, marking) in zip(table([cells for cells, _ in entries], "rllrrll") if entries else [], entries):
+        out += ["  " + row, "      " + marking]
+    return out
 
 
-def _drawing(c: Candidate) -> str:
-    if c.parts <= DRAW_PARTS:
-        return draw(c.network)
-    return f"{c.parts} parts: {compact(c.network)}   ({LEGEND})"
+def _drawing(c: Candidate, r: Review, ascii: bool) -> str:
+    """The network drawn, each part with its power when there is an operating point."""
+    watts = None if r.stress is None else [p.watts for p in r.stress.parts]
+    return draw(c.network, watts=watts, ascii=ascii)
 
 
 def _verified(c: Candidate) -> str:
@@ -214,14 +256,14 @@ def review_lines(r: Review) -> list[str]:
     return out
 
 
-def check_text(c: Candidate, r: Review) -> str:
-    """Report of one network the user typed."""
+def check_text(c: Candidate, r: Review, ascii: bool = False) -> str:
+    """Report of one network the user typed (``ascii``: the drawing in plain ASCII)."""
     out = [
         f"Network: {compact(c.network) if c.parts > DRAW_PARTS else c.expression}  ({_parts(c.parts)})",
         f"Value: {format_ohms(c.value_ohms, 6)}" + ("" if c.error == 0 else f"  (target error {format_error(c.error)})"),
         _verified(c),
         "",
-        _drawing(c),
+        _drawing(c, r, ascii),
         "",
     ]
     return "\n".join(out + review_lines(r))

@@ -2,57 +2,108 @@
 
 Method
 ------
-Small tables hold every distinct network of up to ``h`` parts (:mod:`.tables`).
-Larger networks are never listed; they are searched by meet-in-the-middle over
+Small tables hold every distinct network of up to ``h`` parts (:mod:`.tables`, by top
+join). Larger networks are never listed; they are searched by meet-in-the-middle over
 the top-level split. For a target T the search asks, for each part count n, two
-questions: the largest value ≤ T (*floor*) and the smallest value ≥ T (*ceil*)
-among n-part networks. The best network is the nearer of the two, because the
-relative error is monotone in the value.
+questions: the largest value ≤ T (*floor*) and the smallest value ≥ T (*ceil*) among
+n-part networks. The best network is the nearer of the two, because the relative error
+is monotone in the value.
 
-Both questions decompose exactly. A network of n parts is ``a ⊕ x`` with a from
-the n₁-part table and x an n₂-part network, ⊕ series or parallel, and both joins
-increase with x. So
+Both questions decompose exactly. A network of n parts is a series or a parallel node
+``a ⊕ x`` with ``a`` its smallest child (the canonical split of :mod:`.tables`: a is not
+an ⊕ node, has n₁ ≤ n/2 parts, and every child of x has at least n₁ parts, those of
+exactly n₁ parts not smaller than a for series, not larger for parallel). Both joins
+increase with x, so
 
 * series: a + x ≤ T  ⇔  x ≤ T − a;
 * parallel: ax/(a + x) ≤ T  ⇔  x ≤ 1/(1/T − 1/a) when a > T, and always when a ≤ T;
 
-hence floor_n(T) = max over n₁, ⊕ and a of a ⊕ floor_{n₂}(T′(a)), and likewise for the
-ceil. When n₂ ≤ h the inner floor is one binary search in a sorted table; otherwise
-the same rule recurses, vectorised over every a at once.
+hence floor_n(T) = max over the splits and a of a ⊕ floor(T′(a)) over the x allowed,
+and likewise for the ceil. When x has at most h parts that inner floor is one binary
+search in a sorted table; otherwise the same rule recurses, vectorised over every row.
 
-Stock limits ride along: every query row carries the stock lines its ancestors
-took, and a table entry is taken only if the combined use stays within the bin
-(the scan steps past entries that would overdraw a line).
+Pruning (each step keeps the answer exact)
+------------------------------------------
+* Target window: a series child must lie below the target (a + x > a), a parallel child
+  above it (a ∥ x < a); of the rest only one *boundary* entry can matter: for series,
+  the smallest a ≥ T gives the least a + min x (min x does not fall as a grows, since
+  the children allowed in x only shrink); for parallel, the largest a ≤ T gives the
+  largest a ∥ max x. With x of the same size as a (ordered pairs) the edges move to T/2
+  and 2T (a + x ≥ 2a, a ∥ x ≤ a/2).
+* Incumbent: the previous row's best with one part added or one part replaced by its
+  nearest two-part network is a network of n parts; only values nearer than it (or than
+  the runners-up asked for) can change the answer, so each row carries a window
+  [L, U] and a branch is cut when no x could bring a ⊕ x into it (x lies between
+  v_min/n₂ and n₂·v_max).
+* Exact hit: a value equal to the target is proven best of its size; the remaining
+  top-level splits are skipped once the runners-up asked for are in hand.
+
+Stock limits
+------------
+The search first ignores the counts (every value as many times as needed). When its
+best network takes no more of a value than the bin holds, it is also the best of the
+limited bin (the limited networks are a subset): proven. Only otherwise does the
+limited search run: every query row carries the bin values its ancestors took, a table
+entry is taken only if the combined use stays within the bin (the scan steps past
+entries that would overdraw a value), and since the boundary argument above relies on
+x's choices not depending on a, a second pass there widens the boundary to every
+entry that could still beat the best found (a ⊕ x lies beyond a).
+
+Cost model
+----------
+:meth:`ExactSearch.lookups` estimates the table look-ups from the bin's size alone,
+before any table is built; a request above :data:`MAX_LOOKUPS` is refused with the
+largest part count that fits, and that count is always accepted (it is computed by
+the same function).
 """
 
 from __future__ import annotations
 
-from collections.abc import Callable
+import math
+from collections import Counter
+from collections.abc import Callable, Iterator
 from dataclasses import dataclass
 
 import numpy as np
 
 from netsynth.errors import InfeasibleError
-from netsynth.network import Network, Part, parallel, series
+from netsynth.network import Network, Part, parallel, part_values, resistance, series
+from netsynth.search import cache
 from netsynth.search.tables import (
+    KIND_ANY,
     OP_PARALLEL,
     OP_SERIES,
+    SAME_VALUE_RTOL,
     UNLIMITED,
+    Level,
     Table,
-    build_table,
-    estimated_size,
-    first_table,
-    join_values,
+    build_level,
     compatible,
+    first_level,
+    join_values,
 )
 
-#: largest table (entries before de-duplication) built to speed up a search.
-TABLE_BUDGET = 12_000_000
 #: query rows (targets × table entries) handled in one numpy step; bounds memory.
-CHUNK_ROWS = 2_000_000
+CHUNK_ROWS = 1_000_000
 #: table look-ups one search may need before it is refused as too long; at about
-#: 0.15 µs per look-up on the reference 2-core machine this is about a minute.
-MAX_LOOKUPS = 400_000_000
+#: 0.1 µs per pruned look-up on the reference 2-core machine this is about 30 s.
+MAX_LOOKUPS = 300_000_000
+#: the largest table level built (entries after de-duplication, estimated from the bin's size):
+#: 12 million entries take about 250 MB with their provenance.
+TABLE_BUDGET = 12_000_000
+#: a table level is cached on disk from this many estimated entries on (smaller ones build
+#: in less time than a file takes to read; measured: 30 k entries build in 5 ms).
+CACHE_FROM = 500_000
+#: share of a table that survives the target-window cut at each level of the recursion
+#: (measured over six targets on E24 and E96 bins: 0.25–0.45; the larger is taken).
+PRUNED_SHARE = 0.45
+#: runner-up candidates kept per top-level split (the closest; more only cost witness time).
+KEEP_PER_SPLIT = 32
+#: witnesses built while looking for a realisation of the best value within the stock.
+STOCK_TRIES = 16
+
+#: a relative error this small is an exact hit (a few units in the last place of float arithmetic)
+EXACT = 1e-15
 
 NEG, POS = -np.inf, np.inf
 
@@ -67,139 +118,166 @@ class Found:
     parts: int
 
 
+def _other(op: int) -> int:
+    return OP_PARALLEL if op == OP_SERIES else OP_SERIES
+
+
+def estimated_sizes(values: int, h: int) -> dict[int, int]:
+    """Upper estimates of the ``any`` table sizes of 1..h parts for a bin of ``values`` values.
+
+    Two-part networks of distinct values are distinct up to rare coincidences (10 + 20 =
+    15 + 15): v(v + 1) of them. Beyond that the canonical pairs of :mod:`.tables` are
+    counted, and a level's distinct values are taken as 60 % of its pairs (measured:
+    E24 169 values, 3 parts: 5.2 M distinct of 8.6 M pairs).
+    """
+    sizes = {1: values}
+    for n in range(2, h + 1):
+        pairs = 0
+        for n1 in range(1, n // 2 + 1):
+            a = sizes[n1] if n1 == 1 else sizes[n1] // 2
+            b = sizes[n - n1]
+            pairs += 2 * (a * (a + 1) // 2 if n1 == n - n1 else a * b)
+        sizes[n] = pairs if n == 2 else int(0.6 * pairs)
+    return sizes
+
+
+def plan(values: int, max_parts: int) -> tuple[int, int]:
+    """(table depth h, estimated look-ups of the largest row) for a search of up to ``max_parts`` parts.
+
+    h is at least max_parts // 2 (the smaller side of every split comes from a table) and
+    grows while a deeper table stays within :data:`TABLE_BUDGET` and cuts the look-ups.
+    """
+    need = max(1, max_parts // 2)
+    best = None
+    for h in range(need, max(need, max_parts - 1) + 1):
+        sizes = estimated_sizes(values, h)
+        if sizes[h] > TABLE_BUDGET and h > need:
+            break
+        work = _lookups(sizes, h, max_parts, 1)
+        cost = work + (sizes[h] * 20 if h > 2 else 0)  # building an entry costs about 20 look-ups
+        if best is None or cost < best[2]:
+            best = (h, work, cost)
+    assert best is not None
+    return best[0], best[1] if estimated_sizes(values, best[0])[best[0]] <= 4 * TABLE_BUDGET else 10**18
+
+
+def _lookups(sizes: dict[int, int], h: int, n: int, rows: float) -> int:
+    """Look-ups for ``rows`` queries of n parts: one per row from a table, else the splits' rows."""
+    if n <= h:
+        return int(rows)
+    total = 0.0
+    for n1 in range(1, n // 2 + 1):
+        a = sizes[n1] if n1 == 1 else sizes[n1] / 2
+        share = PRUNED_SHARE / 2 if n1 == n - n1 else PRUNED_SHARE
+        # both joins: the window keeps about PRUNED_SHARE of a for each
+        total += 2 * _lookups(sizes, h, n - n1, rows * max(1.0, a * share))
+    return int(total)
+
+
 class ExactSearch:
     """Exhaustive search over the series/parallel networks of one bin.
 
     Parameters
     ----------
-    values : array of ohms, one per stock line
-    counts : how many of each line the bin holds (None = as many as needed)
+    values : array of ohms, the bin's distinct values (lines of one value pooled)
+    counts : how many of each value the bin holds (None = as many as needed)
     max_parts : the largest part count that will be asked for
+    table_parts : the largest table level to build (at least max_parts // 2); None: the cost
+        model's choice. Only tests and benchmarks set it, to exercise every depth.
+
+    Raises
+    ------
+    InfeasibleError
+        When the cost model says the search would take too long; the message names the
+        largest part count that fits, and asking for it is always accepted.
+
+    Examples
+    --------
+    >>> s = ExactSearch([100.0, 220.0, 470.0], [None, None, None], 3)
+    >>> f = s.best(2, 320.0)[0]
+    >>> f.value_ohms, f.error
+    (320.0, 0.0)
     """
 
-    def __init__(self, values, counts, max_parts: int) -> None:
+    def __init__(self, values, counts, max_parts: int, table_parts: int | None = None) -> None:
         if max_parts < 1:
             raise InfeasibleError("the part count must be at least 1")
-        self.values = np.asarray(values, dtype=np.float64)
-        lim = np.array([UNLIMITED if c is None or c >= max_parts else c for c in counts], dtype=np.int64)
+        pooled: dict[float, int | None] = {}
+        for v, c in zip(values, counts):
+            v = float(v)
+            pooled[v] = None if c is None or pooled.get(v, 0) is None else pooled.get(v, 0) + c
+        order = sorted(pooled)
+        self.values = np.array(order, dtype=np.float64)
+        self.counts = [pooled[v] for v in order]
+        lim = np.array([UNLIMITED if c is None or c >= max_parts else c for c in self.counts], dtype=np.int64)
         self.limited = bool(np.any(lim < UNLIMITED))
         self.limits = lim if self.limited else None
         self.max_parts = max_parts
-        self.tables: dict[int, Table] = {1: first_table(self.values)}
-        self._grow_tables()
-        work = self.lookups(max_parts)
+        self.h, work = plan(len(self.values), max_parts)
         if work > MAX_LOOKUPS:
-            fits = max((n for n in range(1, max_parts) if self.lookups(n) <= MAX_LOOKUPS), default=1)
+            fits = max((n for n in range(1, max_parts) if plan(len(self.values), n)[1] <= MAX_LOOKUPS), default=1)
             raise InfeasibleError(
                 f"an exhaustive search for {max_parts} parts on a bin of {len(self.values)} values needs about "
                 f"{work:.1e} table look-ups, too many to finish in reasonable time; ask for at most "
                 f"{fits} parts (--max-parts {fits}) or use a smaller bin"
             )
+        if table_parts is not None:
+            if not max(1, max_parts // 2) <= table_parts:
+                raise InfeasibleError(f"table_parts={table_parts!r}: at least max_parts // 2 = {max_parts // 2}")
+            self.h = table_parts
+        self.h = min(self.h, max_parts)
+        self.free = _Engine(self.values, None, self.h)
+        self._bound: _Engine | None = None
+        self._memo: dict[tuple[int, float], Found] = {}
+
+    @property
+    def tables(self) -> dict[int, Table]:
+        """The ``any`` table of each level built (1..h parts); on a limited bin, one entry per
+        value and multiset, whose ``parts`` rows are what :meth:`bounds` takes as ``used``."""
+        return {n: level.any for n, level in self._engine.levels.items()}
+
+    @property
+    def bound(self) -> _Engine:
+        """The limited engine, built on first need (see "Stock limits")."""
+        if self._bound is None:
+            self._bound = _Engine(self.values, self.limits, self.h)
+        return self._bound
 
     def lookups(self, n: int, targets: int = 1) -> int:
         """Table look-ups a search for n parts at ``targets`` targets will make (its cost model)."""
-        if n in self.tables:
-            return targets
-        return sum(
-            2 * self.lookups(n - n1, targets * len(self.tables[n1])) if n1 in self.tables else 10**18
-            for n1 in range(1, n // 2 + 1)
-        )
+        return _lookups(estimated_sizes(len(self.values), self.h), self.h, n, targets)
 
-    # ------------------------------------------------------------ tables
+    @property
+    def _engine(self) -> _Engine:
+        """The engine whose tables :attr:`tables`, :meth:`bounds` and :meth:`network_at` speak of."""
+        return self.bound if self.limited else self.free
 
-    def _grow_tables(self) -> None:
-        k = self.max_parts
-        need = k // 2  # the smaller side of every split must come from a table
-        want = max(need, (k + 1) // 2 if k >= 5 else min(2, k - 1))
-        n = 2
-        while n <= k - 1:
-            size = estimated_size(self.tables, n)
-            if n > want and size > TABLE_BUDGET // 6:
-                break
-            if size > TABLE_BUDGET and n > need:
-                break
-            if size > 4 * TABLE_BUDGET:
-                raise InfeasibleError(
-                    f"an exhaustive search for {k} parts on a bin of {len(self.values)} values is too large "
-                    f"for this machine; ask for fewer parts (--max-parts {k - 1}) or use a smaller bin"
-                )
-            self.tables[n] = build_table(self.tables, n, self.limits)
-            n += 1
-        self.h = max(self.tables)
-
-    # ------------------------------------------------------------ bounds
-
-    def _table_bounds(self, n: int, t: np.ndarray, used: np.ndarray | None) -> tuple[np.ndarray, np.ndarray]:
-        table = self.tables[n]
-        v = table.values
-        size = len(v)
-        if size == 0:
-            return np.full(len(t), NEG), np.full(len(t), POS)
-        ilo = np.searchsorted(v, t, side="right") - 1
-        ihi = np.searchsorted(v, t, side="left")
-        if used is not None:
-            ilo = self._scan(table, ilo, used, -1)
-            ihi = self._scan(table, ihi, used, +1)
-        lo = np.where(ilo >= 0, v[np.clip(ilo, 0, size - 1)], NEG)
-        hi = np.where(ihi < size, v[np.clip(ihi, 0, size - 1)], POS)
-        return lo, hi
-
-    def _scan(self, table: Table, idx: np.ndarray, used: np.ndarray, step: int) -> np.ndarray:
-        """Move each index in direction ``step`` until its entry fits beside ``used``."""
-        idx = idx.copy()
-        size = len(table)
-        todo = np.nonzero((idx >= 0) & (idx < size))[0]
-        while todo.size:
-            ok = compatible(table.parts[idx[todo]], used[todo], self.limits)
-            todo = todo[~ok]
-            idx[todo] += step
-            todo = todo[(idx[todo] >= 0) & (idx[todo] < size)]
-        return idx
+    def network_at(self, n: int, i: int) -> Network:
+        """The tree of entry i of the n-part table (:attr:`tables`)."""
+        return self._engine.network(n, KIND_ANY, i)
 
     def bounds(self, n: int, t: np.ndarray, used: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
-        """Floor and ceil values of n-part networks at each target in ``t`` (ohms).
+        """Floor and ceil values of n-part networks at each target in ``t`` (ohms), for callers that
+        search many targets at once (the divider's arms).
 
-        ``-inf`` / ``+inf`` where no network lies on that side.
+        ``used`` (limited bins): per row, the bin-value indices already taken (rows of
+        ``tables[m].parts``). ``-inf`` / ``+inf`` where no network lies on that side.
         """
-        if self.limited and used is None:
-            used = np.empty((len(t), 0), dtype=np.int32)
-        if n in self.tables:
-            return self._table_bounds(n, t, used)
-        lo = np.full(len(t), NEG)
-        hi = np.full(len(t), POS)
-        for n1, op, rows, a_idx, clo, chi in self._expand(n, t, used):
-            a = self.tables[n1].values[a_idx]
-            rlo = _join(op, a, clo, NEG)
-            rhi = _join(op, a, chi, POS)
-            np.maximum.at(lo, rows, rlo)
-            np.minimum.at(hi, rows, rhi)
-        return lo, hi
+        return self._engine.bounds_any(n, self._rows(t, used))
 
-    def _expand(self, n: int, t: np.ndarray, used: np.ndarray | None):
-        """Yield (n₁, op, row, a index, child floor, child ceil) over every top-level split."""
-        for n1 in range(1, n // 2 + 1):
-            n2 = n - n1
-            if n1 not in self.tables:
-                raise InfeasibleError(f"no table of {n1}-part networks; ask for fewer parts")
-            table = self.tables[n1]
-            per_chunk = max(1, CHUNK_ROWS // max(1, len(t)))
-            for start in range(0, len(table), per_chunk):
-                a_idx = np.arange(start, min(len(table), start + per_chunk))
-                rows = np.repeat(np.arange(len(t)), len(a_idx))
-                aa = np.tile(a_idx, len(t))
-                child_used = None
-                if used is not None:
-                    fits = compatible(table.parts[aa], used[rows], self.limits)
-                    rows, aa = rows[fits], aa[fits]
-                    child_used = np.concatenate([used[rows], table.parts[aa]], axis=1)
-                a = table.values[aa]
-                tt = t[rows]
-                for op in (OP_SERIES, OP_PARALLEL):
-                    ct = _child_target(op, tt, a)
-                    clo, chi = self.bounds(n2, ct, child_used)
-                    yield n1, op, rows, aa, clo, chi
+    def _witness(self, n: int, t: np.ndarray, used: np.ndarray | None, side: int) -> Network:
+        """A network of n parts whose value is :meth:`bounds`' floor (side -1) or ceil (+1) at ``t[0]``."""
+        return self._engine.witness_any(n, self._rows(t, used), side)
 
-    # ------------------------------------------------------------ witnesses
+    def _rows(self, t, used) -> _Rows:
+        t = np.asarray(t, dtype=np.float64)
+        if self.limited:
+            used = np.empty((len(t), 0), np.int16) if used is None else np.asarray(used, dtype=np.int16)
+        else:
+            used = None
+        return _Rows(t, np.full(len(t), NEG), np.full(len(t), NEG), np.full(len(t), POS), used)
+
+    # ------------------------------------------------------------ the search
 
     def best(self, n: int, target: float, alternatives: int = 0) -> list[Found]:
         """The best n-part network for ``target`` ohms, then up to ``alternatives`` runners-up.
@@ -208,99 +286,544 @@ class ExactSearch:
         top-level choice contributes its own best, so they are good alternatives,
         not a complete ranking of every network. Empty if the bin cannot make n parts.
         """
-        t = np.array([float(target)])
-        used = np.empty((1, 0), dtype=np.int32) if self.limited else None
-        cands = self._candidates(n, t, used)
+        target = float(target)
+        if self.limited and None not in self.counts and n > sum(self.counts):  # type: ignore[arg-type]
+            return []
+        incumbent = self._incumbent(n, target)
+        cands = self.free.candidates(n, target, alternatives, incumbent)
+        if self.limited:
+            cands = self._within_stock(n, target, alternatives, cands, incumbent)
+        out = _ranked(cands, target, n, alternatives)
+        if out:
+            self._memo[(n, target)] = out[0]
+        return out
+
+    def _within_stock(self, n, target, alternatives, cands, incumbent):
+        """The free search's candidates that respect the stock, if they include a proven best;
+        else the limited search's (see "Stock limits")."""
+        cands = sorted(cands, key=lambda c: abs(c[0] / target - 1.0))
         if not cands:
             return []
-        cands.sort(key=lambda c: abs(c[0] / target - 1.0))
-        out: list[Found] = []
-        seen: list[float] = []
+        floor_err = abs(cands[0][0] / target - 1.0)
+        kept: list[tuple[float, Callable[[], Network]]] = []
+        tries, proven = 0, False
         for value, make in cands:
-            if any(abs(value - s) <= 1e-12 * value for s in seen):
-                continue
-            seen.append(value)
-            net = make()
-            out.append(Found(net, value, value / target - 1.0, n))
-            if len(out) > alternatives:
+            err = abs(value / target - 1.0)
+            if not proven and err > floor_err * (1 + 1e-9) + 1e-15:
+                break  # the free best value has no realisation within the stock among those tried
+            if any(abs(value - v) <= SAME_VALUE_RTOL * value for v, _ in kept):
+                continue  # this value already has a realisation within the stock
+            tries += 1
+            if tries > STOCK_TRIES + alternatives:
                 break
-        return out
+            net = make()
+            if self._fits(net):
+                kept.append((value, lambda net=net: net))
+                proven = True
+                if len(kept) > alternatives:
+                    return kept
+        if proven:
+            return kept
+        return self.bound.candidates(n, target, alternatives, incumbent)
 
-    def _candidates(self, n: int, t: np.ndarray, used: np.ndarray | None) -> list[tuple[float, Callable[[], Network]]]:
-        """(value, builder) for the floor and ceil reached through each top-level choice."""
-        out: list[tuple[float, Callable[[], Network]]] = []
-        if n in self.tables:
-            table = self.tables[n]
-            lo_i = np.searchsorted(table.values, t, side="right") - 1
-            hi_i = np.searchsorted(table.values, t, side="left")
-            # a few entries each way give alternatives as well as the floor and ceil
-            for idx, step in ((lo_i, -1), (hi_i, +1)):
-                for _ in range(8):
-                    if used is not None:
-                        idx = self._scan(table, idx, used, step)
-                    i = int(idx[0])
-                    if not 0 <= i < len(table):
-                        break
-                    out.append((float(table.values[i]), lambda n=n, i=i: self.network_at(n, i)))
-                    idx = idx + step
-            return out
-        for n1, op, rows, aa, clo, chi in self._expand(n, t, used):
-            a = self.tables[n1].values[aa]
-            for child, side in ((clo, -1), (chi, +1)):
-                joined = _join(op, a, child, NEG if side < 0 else POS)
-                finite = np.isfinite(joined)
-                # keep each a's result, the closest few dozen suffice for alternatives
-                idx = np.nonzero(finite)[0]
-                if idx.size == 0:
-                    continue
-                err = np.abs(joined[idx] / t[0] - 1.0)
-                keep = idx[np.argsort(err, kind="stable")[:32]]
-                for j in keep:
-                    out.append((float(joined[j]), self._builder(n1, op, int(aa[j]), n - n1, t[0], side, used)))
-        return out
+    def _fits(self, net: Network) -> bool:
+        used = Counter(part_values(net))
+        for v, c in used.items():
+            i = int(np.searchsorted(self.values, v))
+            if i >= len(self.values) or self.values[i] != v:
+                return False
+            if self.counts[i] is not None and c > self.counts[i]:
+                return False
+        return True
 
-    def _builder(self, n1, op, a_i, n2, target, side, used) -> Callable[[], Network]:
-        def build() -> Network:
-            table = self.tables[n1]
-            child_t = _child_target(op, np.array([target]), table.values[[a_i]])
-            child_used = None
-            if used is not None:
-                child_used = np.concatenate([used, table.parts[[a_i]]], axis=1)
-            child = self._witness(n2, child_t, child_used, side)
-            left = self.network_at(n1, a_i)
-            return series(left, child) if op == OP_SERIES else parallel(left, child)
+    def _incumbent(self, n: int, target: float) -> list[tuple[float, Network]]:
+        """Networks of n parts built from the previous row's best (see "Pruning"): it with one
+        part added, or with one part replaced by a nearest two-part network. Empty when
+        the previous row is unknown or n parts come from a table anyway."""
+        prev = self._memo.get((n - 1, target))
+        if n <= self.h or prev is None:
+            return []
+        net = prev.network
+        v = prev.value_ohms
+        parts = self.free.levels[1].any.values
+        options: list[Network] = []
+        for x in _near(parts, target - v):
+            options.append(series(net, Part(float(x))))
+        if v > target:
+            for x in _near(parts, 1.0 / (1.0 / target - 1.0 / v)):
+                options.append(parallel(net, Part(float(x))))
+        two = self.free.levels[2].any if 2 in self.free.levels else None
+        for p in sorted(set(part_values(net))) if two is not None else ():
+            for i in _near_index(two.values, p):
+                options.append(_replace_one(net, p, self.free.network(2, KIND_ANY, i)))
+        return [(resistance(o), o) for o in options if not self.limited or self._fits(o)]
 
-        return build
 
-    def _witness(self, n: int, t: np.ndarray, used: np.ndarray | None, side: int) -> Network:
-        """A network of n parts whose value is the floor (side -1) or ceil (+1) at t."""
-        if n in self.tables:
-            table = self.tables[n]
-            i = np.searchsorted(table.values, t, side="right" if side < 0 else "left") - (1 if side < 0 else 0)
-            if used is not None:
-                i = self._scan(table, i, used, side)
-            return self.network_at(n, int(i[0]))
-        best_val, best = (NEG if side < 0 else POS), None
-        for n1, op, rows, aa, clo, chi in self._expand(n, t, used):
-            a = self.tables[n1].values[aa]
-            joined = _join(op, a, clo if side < 0 else chi, NEG if side < 0 else POS)
-            j = int(np.argmax(joined) if side < 0 else np.argmin(joined))
-            if (side < 0 and joined[j] > best_val) or (side > 0 and joined[j] < best_val):
-                best_val, best = joined[j], (n1, op, int(aa[j]))
-        if best is None:
-            raise AssertionError("witness asked for a side with no network")
-        n1, op, a_i = best
-        return self._builder(n1, op, a_i, n - n1, float(t[0]), side, used)()
+def _near(values: np.ndarray, x: float) -> np.ndarray:
+    if not x > 0:
+        return values[:1]
+    return values[_near_index(values, x)]
 
-    def network_at(self, n: int, i: int) -> Network:
-        """The tree of entry i of the n-part table."""
-        table = self.tables[n]
+
+def _near_index(values: np.ndarray, x: float) -> list[int]:
+    i = int(np.searchsorted(values, x))
+    return [j for j in (i - 1, i) if 0 <= j < len(values)]
+
+
+def _replace_one(net: Network, ohms: float, by: Network) -> Network:
+    """``net`` with its first part of ``ohms`` replaced by ``by``."""
+    done = [False]
+
+    def walk(node: Network) -> Network:
+        if isinstance(node, Part):
+            if not done[0] and node.ohms == ohms:
+                done[0] = True
+                return by
+            return node
+        kids = [walk(c) for c in node.children]
+        return series(*kids) if type(node).__name__ == "Series" else parallel(*kids)
+
+    return walk(net)
+
+
+def _ranked(cands, target: float, n: int, alternatives: int) -> list[Found]:
+    """The best ``alternatives`` + 1 candidates of distinct values, nearest first."""
+    cands = sorted(cands, key=lambda c: abs(c[0] / target - 1.0))
+    out: list[Found] = []
+    seen: list[float] = []
+    for value, make in cands:
+        if any(abs(value - s) <= SAME_VALUE_RTOL * value for s in seen):
+            continue
+        seen.append(value)
+        net = make()
+        out.append(Found(net, value, value / target - 1.0, n))
+        if len(out) > alternatives:
+            break
+    return out
+
+
+# ---------------------------------------------------------------------- the engine
+
+
+@dataclass
+class _Rows:
+    """Query rows: target, bound on same-size children, window [L, U], values already taken."""
+
+    t: np.ndarray
+    bnd: np.ndarray  # series: a lower bound (-inf none); parallel: an upper bound (+inf none)
+    L: np.ndarray
+    U: np.ndarray
+    used: np.ndarray | None  # int16 (R, u), limited engine only
+
+    def take(self, rows: np.ndarray) -> _Rows:
+        return _Rows(self.t[rows], self.bnd[rows], self.L[rows], self.U[rows],
+                     None if self.used is None else self.used[rows])
+
+
+class _Engine:
+    """Tables and the pruned recursion over one bin; ``limits`` None: counts never bind."""
+
+    def __init__(self, values: np.ndarray, limits: np.ndarray | None, h: int) -> None:
+        self.values = values
+        self.limits = limits
+        self.levels: dict[int, Level] = {1: first_level(values, limits is not None)}
+        sizes = estimated_sizes(len(values), h)
+        for n in range(2, h + 1):
+            self.levels[n] = cache.level(values, limits, n, self.levels, CACHE_FROM, sizes[n])
+        self.h = h
+        self.vmin, self.vmax = float(values[0]), float(values[-1])
+        self.looked = 0  #: table look-ups made so far (to check the cost model)
+
+    # ------------------------------------------------------------ witnesses
+
+    def network(self, n: int, kind: int, i: int) -> Network:
+        table = self.levels[n].table(kind)
         if n == 1:
             return Part(float(self.values[table.left[i]]))
         n1 = int(table.left_n[i])
-        left = self.network_at(n1, int(table.left[i]))
-        right = self.network_at(n - n1, int(table.right[i]))
+        left = self.network(n1, int(table.left_kind[i]), int(table.left[i]))
+        right = self.network(n - n1, int(table.right_kind[i]), int(table.right[i]))
         return series(left, right) if table.op[i] == OP_SERIES else parallel(left, right)
+
+    # ------------------------------------------------------------ top level
+
+    def candidates(self, n, target, alternatives, incumbent) -> list[tuple[float, Callable[[], Network]]]:
+        """(value, builder) for the floor and ceil reached through each top-level choice."""
+        t = np.array([target])
+        if n <= self.h:
+            return self._table_candidates(n, t)
+        out: list[tuple[float, Callable[[], Network]]] = [(v, lambda net=net: net) for v, net in incumbent]
+        for op in (OP_SERIES, OP_PARALLEL):
+            for n1 in range(1, n // 2 + 1):
+                errs = sorted(abs(v / target - 1.0) for v, _ in out)
+                if errs and errs[0] <= EXACT and len(_distinct_values([v for v, _ in out])) > alternatives:
+                    return out  # an exact hit is proven best of its size
+                # only candidates nearer than the (alternatives + 1)-th distinct one matter
+                e = _kth_distinct_error(out, target, alternatives)
+                rows = _Rows(t, np.array([NEG if op == OP_SERIES else POS]),
+                             np.array([target * (1 - e) if e < 1 else NEG]), np.array([target * (1 + e)]),
+                             np.empty((1, 0), np.int16) if self.limits is not None else None)
+                out.extend(self._split_candidates(op, n, n1, rows, target))
+        return out
+
+    def _table_candidates(self, n, t):
+        table = self.levels[n].any
+        used = np.empty((1, 0), np.int16) if self.limits is not None else None
+        out = []
+        lo_i = np.searchsorted(table.values, t, side="right") - 1
+        hi_i = np.searchsorted(table.values, t, side="left")
+        # a few entries each way give alternatives as well as the floor and ceil
+        for idx, step in ((lo_i, -1), (hi_i, +1)):
+            for _ in range(8):
+                if used is not None:
+                    idx = self._scan(table, idx, used, step, np.array([NEG if step < 0 else POS]))
+                i = int(idx[0])
+                if not 0 <= i < len(table):
+                    break
+                out.append((float(table.values[i]), lambda n=n, i=i: self.network(n, KIND_ANY, i)))
+                idx = idx + step
+        return out
+
+    def _split_candidates(self, op, n, n1, rows: _Rows, target):
+        lo = np.full(1, NEG)
+        hi = np.full(1, POS)
+        found = []
+        for _, a_idx, a, clo, chi, sub in self._split(op, n, n1, 1, rows, lo, hi):
+            for child, side in ((clo, -1), (chi, +1)):
+                joined = _join(op, a, child, NEG if side < 0 else POS)
+                idx = np.nonzero(np.isfinite(joined))[0]
+                if idx.size == 0:
+                    continue
+                err = np.abs(joined[idx] / target - 1.0)
+                keep = idx[np.argsort(err, kind="stable")[:KEEP_PER_SPLIT]]
+                for j in keep:
+                    found.append((float(joined[j]), self._builder(op, n, n1, int(a_idx[j]), sub.take(np.array([j])),
+                                                                  side)))
+            _reduce(op, lo, hi, np.zeros(len(a), np.intp), a, clo, chi)
+        return found
+
+    def _builder(self, op, n, n1, a_i, child: _Rows, side) -> Callable[[], Network]:
+        def build() -> Network:
+            left = self.network(n1, KIND_ANY if n1 == 1 else self._non_kind(op), a_i)
+            right = self._witness_family(op, n - n1, n1, child, side)
+            return series(left, right) if op == OP_SERIES else parallel(left, right)
+
+        return build
+
+    @staticmethod
+    def _non_kind(op: int) -> int:
+        from netsynth.search.tables import KIND_PAR, KIND_SER
+
+        return KIND_PAR if op == OP_SERIES else KIND_SER
+
+    def bounds_any(self, n: int, r: _Rows) -> tuple[np.ndarray, np.ndarray]:
+        """Floor and ceil over every network of n parts."""
+        if n <= self.h:
+            return self._lookup(self.levels[n].any, OP_SERIES, r, bounded=False)
+        lo, hi = self._nodes(OP_SERIES, n, 1, _unbounded(OP_PARALLEL, r))
+        lo2, hi2 = self._nodes(OP_PARALLEL, n, 1, _unbounded(OP_SERIES, r))
+        return np.maximum(lo, lo2), np.minimum(hi, hi2)
+
+    def witness_any(self, n: int, r: _Rows, side: int) -> Network:
+        """A network of n parts whose value is :meth:`bounds_any`'s floor or ceil (one row)."""
+        if n <= self.h:
+            table = self.levels[n].any
+            return self.network(n, KIND_ANY, self._lookup_index(table, OP_SERIES, r, False, side))
+        rs, rp = _unbounded(OP_PARALLEL, r), _unbounded(OP_SERIES, r)
+        lo, hi = self._nodes(OP_SERIES, n, 1, rs)
+        lo2, hi2 = self._nodes(OP_PARALLEL, n, 1, rp)
+        par_better = (lo2[0] > lo[0]) if side < 0 else (hi2[0] < hi[0])
+        if par_better:
+            return self._witness_nodes(OP_PARALLEL, n, 1, rp, side)
+        return self._witness_nodes(OP_SERIES, n, 1, rs, side)
+
+    # ------------------------------------------------------------ the recursion
+
+    def _family(self, op: int, n: int, m: int, r: _Rows) -> tuple[np.ndarray, np.ndarray]:
+        """Floor and ceil over x of n parts that may follow an ⊕ child of m parts (module docstring):
+        a non-⊕ network (not below/above the bound when n == m), or an ⊕ node of children ≥ m parts."""
+        if n <= self.h:
+            table = self.levels[n].non(op) if 2 * m > n else self.levels[n].any
+            return self._lookup(table, op, r, bounded=n == m)
+        if n == m:
+            lo, hi = self._nodes(_other(op), n, 1, _bounded_rows(op, r))
+            lo, hi = _bound_filter(op, r, lo, hi)
+        else:
+            lo, hi = self._nodes(_other(op), n, 1, _unbounded(op, r))
+        if 2 * m <= n:
+            lo2, hi2 = self._nodes(op, n, m, r)
+            lo, hi = np.maximum(lo, lo2), np.minimum(hi, hi2)
+        return lo, hi
+
+    def _nodes(self, op: int, n: int, m: int, r: _Rows) -> tuple[np.ndarray, np.ndarray]:
+        """Floor and ceil over ⊕ nodes of n parts whose children all have at least m parts."""
+        lo = np.full(len(r.t), NEG)
+        hi = np.full(len(r.t), POS)
+        for n1 in range(m, n // 2 + 1):
+            for rows, _, a, clo, chi, _ in self._split(op, n, n1, m, r, lo, hi):
+                _reduce(op, lo, hi, rows, a, clo, chi)
+        return lo, hi
+
+    def _split(self, op, n, n1, m, r: _Rows, lo, hi) -> Iterator:
+        """Yield (row, a index, a, child floor, child ceil, child rows) over the a of one split.
+
+        ``lo``/``hi`` are the callers' running results; the limited engine's second pass
+        reads them after the first pass's chunks have been reduced into them.
+        """
+        n2 = n - n1
+        table = self.levels[n1].non(op)
+        vals = table.values
+        size = len(vals)
+        if size == 0:
+            return
+        same = n1 == n2
+        c = 2.0 if same else 1.0
+        bounded = n1 == m
+        xmin, xmax = self.vmin / n2, self.vmax * n2
+        if op == OP_SERIES:
+            low = r.L - xmax
+            if bounded:
+                low = np.maximum(low, r.bnd)
+            start = np.searchsorted(vals, low, side="left")
+            full = np.maximum(np.searchsorted(vals, r.t / c, side="left"), start)
+            b = np.minimum(full, size - 1)
+            least = vals[b] + np.maximum(xmin, vals[b] if same else 0.0)
+            stop = full + ((full < size) & (least <= r.U))
+        else:
+            with np.errstate(divide="ignore"):
+                g = 1.0 / r.U - 1.0 / xmin
+                high = np.where(g > 0, 1.0 / np.where(g > 0, g, 1.0), POS)
+            if bounded:
+                high = np.minimum(high, r.bnd)
+            stop = np.searchsorted(vals, high, side="right")
+            full = np.minimum(np.searchsorted(vals, r.t * c, side="right"), stop)
+            b = np.maximum(full - 1, 0)
+            most = _par(vals[b], np.minimum(xmax, vals[b]) if same else xmax)
+            start = full - ((full > 0) & (most >= r.L))
+        yield from self._expand(op, n1, n2, table, r, start, stop)
+        if self.limits is None:
+            return
+        # second pass (limited engine): entries beyond the boundary that could still beat the best found
+        if op == OP_SERIES:
+            start2 = stop
+            stop2 = np.maximum(np.searchsorted(vals, np.minimum(hi, r.U) / c, side="left"), start2)
+        else:
+            stop2 = start
+            start2 = np.minimum(np.searchsorted(vals, np.maximum(lo, r.L) * c, side="right"), stop2)
+        yield from self._expand(op, n1, n2, table, r, start2, stop2)
+
+    def _expand(self, op, n1, n2, table: Table, r: _Rows, start, stop) -> Iterator:
+        counts = np.maximum(stop - start, 0)
+        total = int(counts.sum())
+        if total == 0:
+            return
+        ends = np.cumsum(counts)
+        begins = ends - counts
+        # chunk boundaries at row edges, CHUNK_ROWS entries or more per chunk
+        cuts = [0]
+        while cuts[-1] < len(counts):
+            k = int(np.searchsorted(ends, ends[cuts[-1]] - counts[cuts[-1]] + CHUNK_ROWS, side="left")) + 1
+            cuts.append(min(len(counts), max(k, cuts[-1] + 1)))
+        for c0, c1 in zip(cuts[:-1], cuts[1:]):
+            cnt = counts[c0:c1]
+            m = int(cnt.sum())
+            if m == 0:
+                continue
+            rows = np.repeat(np.arange(c0, c1), cnt)
+            idx = start[rows] + (np.arange(m) - (begins[rows] - begins[c0]))
+            sub_used = None
+            if r.used is not None:
+                fits = compatible(table.parts[idx], r.used[rows], self.limits)
+                rows, idx = rows[fits], idx[fits]
+                if len(rows) == 0:
+                    continue
+                sub_used = np.concatenate([r.used[rows], table.parts[idx]], axis=1)
+            a = table.values[idx]
+            t = r.t[rows]
+            L, U = r.L[rows], r.U[rows]
+            if op == OP_SERIES:
+                sub = _Rows(t - a, a, L - a, U - a, sub_used)
+            else:
+                sub = _Rows(_child_target(op, t, a), a, _par_child(L, a, NEG), _par_child(U, a, POS), sub_used)
+            clo, chi = self._family(op, n2, n1, sub)
+            yield rows, idx, a, clo, chi, sub
+
+    def _lookup(self, table: Table, op: int, r: _Rows, bounded: bool) -> tuple[np.ndarray, np.ndarray]:
+        v = table.values
+        size = len(v)
+        self.looked += len(r.t)
+        if size == 0:
+            return np.full(len(r.t), NEG), np.full(len(r.t), POS)
+        tf, tc = r.t, r.t
+        if bounded:
+            if op == OP_SERIES:
+                tc = np.maximum(r.t, r.bnd)
+            else:
+                tf = np.minimum(r.t, r.bnd)
+        ilo = np.searchsorted(v, tf, side="right") - 1
+        ihi = np.searchsorted(v, tc, side="left")
+        if r.used is not None:
+            lo_stop = np.maximum(r.L, r.bnd) if bounded and op == OP_SERIES else r.L
+            hi_stop = np.minimum(r.U, r.bnd) if bounded and op == OP_PARALLEL else r.U
+            ilo = self._scan(table, ilo, r.used, -1, lo_stop)
+            ihi = self._scan(table, ihi, r.used, +1, hi_stop)
+        lo = np.where(ilo >= 0, v[np.clip(ilo, 0, size - 1)], NEG)
+        hi = np.where(ihi < size, v[np.clip(ihi, 0, size - 1)], POS)
+        if bounded:
+            return _bound_filter(op, r, lo, hi)
+        return lo, hi
+
+    def _lookup_index(self, table: Table, op: int, r: _Rows, bounded: bool, side: int) -> int:
+        """Index of the entry :meth:`_lookup` reports on ``side`` for one row."""
+        v = table.values
+        tf, tc = r.t, r.t
+        if bounded:
+            if op == OP_SERIES:
+                tc = np.maximum(r.t, r.bnd)
+            else:
+                tf = np.minimum(r.t, r.bnd)
+        if side < 0:
+            i = np.searchsorted(v, tf, side="right") - 1
+            if r.used is not None:
+                i = self._scan(table, i, r.used, -1, np.maximum(r.L, r.bnd) if bounded and op == OP_SERIES else r.L)
+        else:
+            i = np.searchsorted(v, tc, side="left")
+            if r.used is not None:
+                i = self._scan(table, i, r.used, +1, np.minimum(r.U, r.bnd) if bounded and op == OP_PARALLEL else r.U)
+        return int(i[0])
+
+    def _scan(self, table: Table, idx, used, step, stop_at) -> np.ndarray:
+        """Move each index in direction ``step`` until its entry fits beside ``used``; give up
+        (index off the table) once the value passes ``stop_at``, beyond which no entry matters."""
+        idx = idx.copy()
+        size = len(table)
+        v = table.values
+        todo = np.nonzero((idx >= 0) & (idx < size))[0]
+        while todo.size:
+            ok = compatible(table.parts[idx[todo]], used[todo], self.limits)
+            todo = todo[~ok]
+            idx[todo] += step
+            inside = (idx[todo] >= 0) & (idx[todo] < size)
+            gone = todo[~inside]
+            todo = todo[inside]
+            past = (v[idx[todo]] < stop_at[todo]) if step < 0 else (v[idx[todo]] > stop_at[todo])
+            idx[todo[past]] = -1 if step < 0 else size
+            todo = todo[~past]
+            del gone
+        return idx
+
+    # ------------------------------------------------------------ witnesses
+
+    def _witness_family(self, op: int, n: int, m: int, r: _Rows, side: int) -> Network:
+        """A network of :meth:`_family` (one row) whose value is its floor (side -1) or ceil (+1)."""
+        if n <= self.h:
+            kind = self._non_kind(op) if 2 * m > n and n > 1 else KIND_ANY
+            table = self.levels[n].table(kind)
+            return self.network(n, kind, self._lookup_index(table, op, r, n == m, side))
+        if n == m:
+            rr = _bounded_rows(op, r)
+            lo, hi = self._nodes(_other(op), n, 1, rr)
+            lo, hi = _bound_filter(op, r, lo, hi)
+        else:
+            rr = _unbounded(op, r)
+            lo, hi = self._nodes(_other(op), n, 1, rr)
+        single = lo[0] if side < 0 else hi[0]
+        if 2 * m <= n:
+            lo2, hi2 = self._nodes(op, n, m, r)
+            other = lo2[0] if side < 0 else hi2[0]
+            if (side < 0 and other > single) or (side > 0 and other < single):
+                return self._witness_nodes(op, n, m, r, side)
+        if not np.isfinite(single):
+            raise AssertionError("witness asked for a side with no network")
+        return self._witness_nodes(_other(op), n, 1, rr, side)
+
+    def _witness_nodes(self, op: int, n: int, m: int, r: _Rows, side: int) -> Network:
+        best_val, best = (NEG if side < 0 else POS), None
+        lo = np.full(1, NEG)
+        hi = np.full(1, POS)
+        for n1 in range(m, n // 2 + 1):
+            for _, a_idx, a, clo, chi, sub in self._split(op, n, n1, m, r, lo, hi):
+                joined = _join(op, a, clo if side < 0 else chi, NEG if side < 0 else POS)
+                j = int(np.argmax(joined) if side < 0 else np.argmin(joined))
+                if (side < 0 and joined[j] > best_val) or (side > 0 and joined[j] < best_val):
+                    best_val, best = joined[j], (n1, int(a_idx[j]), sub.take(np.array([j])))
+                _reduce(op, lo, hi, np.zeros(len(a), np.intp), a, clo, chi)
+        if best is None:
+            raise AssertionError("witness asked for a side with no network")
+        n1, a_i, sub = best
+        left = self.network(n1, KIND_ANY if n1 == 1 else self._non_kind(op), a_i)
+        right = self._witness_family(op, n - n1, n1, sub, side)
+        return series(left, right) if op == OP_SERIES else parallel(left, right)
+
+
+# ---------------------------------------------------------------------- helpers
+
+
+def _bounded_rows(op: int, r: _Rows) -> _Rows:
+    """Rows for the single-child family under a value bound: the ceil (series) or floor
+    (parallel) is taken at the bound when the bound lies beyond the target."""
+    t = np.maximum(r.t, r.bnd) if op == OP_SERIES else np.minimum(r.t, r.bnd)
+    return _Rows(t, np.full(len(t), NEG if _other(op) == OP_SERIES else POS), r.L, r.U, r.used)
+
+
+def _unbounded(op: int, r: _Rows) -> _Rows:
+    return _Rows(r.t, np.full(len(r.t), NEG if _other(op) == OP_SERIES else POS), r.L, r.U, r.used)
+
+
+def _bound_filter(op: int, r: _Rows, lo: np.ndarray, hi: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Drop a floor below a series bound, or a ceil above a parallel bound (and a side the bound rules out)."""
+    if op == OP_SERIES:
+        lo = np.where((lo >= r.bnd) & (r.bnd <= r.t), lo, NEG)
+    else:
+        hi = np.where((hi <= r.bnd) & (r.bnd >= r.t), hi, POS)
+    return lo, hi
+
+
+def _reduce(op, lo, hi, rows, a, clo, chi) -> None:
+    """Fold a ⊕ child floor/ceil into the running per-row results (rows ascending)."""
+    jl = _join(op, a, clo, NEG)
+    jh = _join(op, a, chi, POS)
+    if len(rows) == 0:
+        return
+    starts = np.flatnonzero(np.r_[True, rows[1:] != rows[:-1]])
+    urows = rows[starts]
+    lo[urows] = np.maximum(lo[urows], np.maximum.reduceat(jl, starts))
+    hi[urows] = np.minimum(hi[urows], np.minimum.reduceat(jh, starts))
+
+
+def _distinct_values(values: list[float]) -> list[float]:
+    out: list[float] = []
+    for v in sorted(values):
+        if not out or v - out[-1] > SAME_VALUE_RTOL * v:
+            out.append(v)
+    return out
+
+
+def _kth_distinct_error(cands, target: float, k: int) -> float:
+    """The error of the (k + 1)-th nearest distinct candidate value (inf when fewer)."""
+    errs = sorted((abs(v / target - 1.0), v) for v, _ in cands)
+    seen: list[float] = []
+    for e, v in errs:
+        if any(abs(v - s) <= SAME_VALUE_RTOL * v for s in seen):
+            continue
+        seen.append(v)
+        if len(seen) > k:
+            # a hair of slack: a value at exactly this error is still collected
+            return e * (1 + 1e-9) + 1e-15
+    return math.inf
+
+
+def _par(a, x):
+    return a * x / (a + x)
+
+
+def _par_child(edge: np.ndarray, a: np.ndarray, none: float) -> np.ndarray:
+    """The x at which a ∥ x equals ``edge`` (the window's edge for x); ``none`` where no x does."""
+    with np.errstate(divide="ignore", invalid="ignore"):
+        g = 1.0 / edge - 1.0 / a
+        out = np.where(g > 0, 1.0 / np.where(g > 0, g, 1.0), POS if none == POS else POS)
+    out = np.where(np.isfinite(edge) & (edge > 0), out, none)
+    return out
 
 
 def _child_target(op: int, t: np.ndarray, a: np.ndarray) -> np.ndarray:

@@ -8,7 +8,9 @@ if every part stays within its derated power and voltage limits:
   search, whose ranked candidates are screened by a nodal stress check; a row is
   proven when the unconstrained best already passes;
 * larger counts come from the regular-array search (:mod:`.arrays`), best within its
-  families (uniform s×p arrays, two-value strings and groups), not proven;
+  families (uniform s×p arrays, two-value strings and groups), not proven, and then from
+  CP-SAT over two wider families (:mod:`.cpsat`: series strings of parallel banks, parallel
+  sets of series strings, mixed values), whose rows say what the solver proved;
 * the search starts at the lower bound on the part count (total power over the best
   derated part power, total voltage over the best part voltage limit) and, without an
   explicit limit, goes as far as :func:`default_part_limit` of that bound;
@@ -21,8 +23,11 @@ Scoring and the stopping rule for a required accuracy live in :func:`pick`.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
+from contextlib import contextmanager
+from contextvars import ContextVar
 from dataclasses import dataclass, replace
+from typing import Literal, get_args
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
 from netsynth.analysis.lines import assign_lines, value_pool
@@ -37,16 +42,13 @@ from netsynth.values import format_ohms
 
 #: default part count for the exhaustive search without an operating point
 DEFAULT_MAX_PARTS = 4
-#: the exhaustive search always covers this many parts when asked (larger counts: regular arrays) ...
-EXACT_PARTS = 5
-#: ... and up to this many on small bins, as far as ExactSearch.lookups says it finishes quickly
+#: the exhaustive search covers up to this many parts, as far as its cost model
+#: (ExactSearch.lookups) says it finishes quickly: 6 on a 169-value E24 bin, more on small bins
 EXACT_PARTS_MAX = 8
-#: a bin with at most this many stock lines is "small"
-SMALL_BIN = 40
 #: with an operating point, the exhaustive search covers at most this many parts
 EXACT_PARTS_WITH_STRESS = 4
 #: arrays searched without an operating point are screened at this drive, i.e. not at all
-NEGLIGIBLE_DRIVE = OperatingPoint(volts=1e-12)
+NEGLIGIBLE_DRIVE = OperatingPoint(volts=1e-6)  # the smallest drive accepted (netsynth.limits.MIN_VOLTS)
 #: candidates per part count screened for stress before a row is called "best found"
 STRESS_CANDIDATES = 60
 #: the array search never goes beyond this many parts
@@ -57,6 +59,30 @@ SAME_ERROR = 1e-12
 HEADROOM_STEP = 1.25
 #: "close enough" for --prefer parts/headroom when no --within is given (common practice, no source)
 DEFAULT_ACCEPT = 0.01
+#: how the part counts above the exhaustive range are searched (see :func:`search_frontier`)
+Engine = Literal["auto", "exhaustive", "cpsat", "arrays"]
+ENGINES: tuple[str, ...] = get_args(Engine)
+#: the engine of a request that names none (``api.make`` names none; see :func:`using_engine`)
+_ENGINE: ContextVar[str] = ContextVar("netsynth_engine", default="auto")
+#: seconds CP-SAT may spend on one request's family searches (both families together)
+CPSAT_SECONDS = 10.0
+
+
+@contextmanager
+def using_engine(engine: Engine) -> Iterator[None]:
+    """Search with ``engine`` inside the block, where the caller cannot pass it (``api.make``).
+
+    >>> with using_engine("arrays"):
+    ...     _ENGINE.get()
+    'arrays'
+    """
+    if engine not in ENGINES:
+        raise ArgumentError(f"engine={engine!r}: choose one of {', '.join(ENGINES)}")
+    token = _ENGINE.set(engine)
+    try:
+        yield
+    finally:
+        _ENGINE.reset(token)
 
 
 @dataclass(frozen=True, slots=True)
@@ -70,8 +96,11 @@ class FrontierRow:
     best: Found
     alternatives: tuple[Found, ...]
     proven: bool  #: True: no network of this many parts from the bin does better
-    method: str  #: "exhaustive" or the array family that produced it
+    method: str  #: "exhaustive", the array family, or "cp-sat banks" / "cp-sat strings"
     stress: NetworkStress | None = None  #: per-part stress of ``best`` at the operating point
+    status: str = ""  #: a CP-SAT row's proof words ("proven best in family", "best found, bound 41 parts")
+    note: str = ""  #: a CP-SAT row's family and what its status promises, in one sentence
+    fewest: bool = False  #: no network of any shape with fewer parts lands as close within the limits
 
     @property
     def headroom(self) -> float | None:
@@ -169,6 +198,7 @@ def search_frontier(
     on_progress: Callable[[str], None] | None = None,
     point: OperatingPoint | None = None,
     derating: Derating = Derating(),
+    engine: Engine | None = None,
 ) -> Frontier:
     """Best acceptable network for each part count.
 
@@ -179,6 +209,13 @@ def search_frontier(
     With ``within`` (a fraction, e.g. 0.001 for ±0.1 %), the search stops at the first part
     count whose best network lands within it; if none does, every row is kept and
     ``within_met`` is False.
+
+    ``engine`` (None: the one set by :func:`using_engine`, else ``auto``) says how counts above the
+    exhaustive range are searched: ``arrays`` the regular arrays; ``cpsat`` CP-SAT over its two
+    families (the arrays only seed it, and its model is solved however large); ``auto`` both, CP-SAT
+    only where its pruned model stays small (:data:`netsynth.search.cpsat.OPTION_CAP`) and OR-Tools
+    is installed; ``exhaustive`` none (the frontier stops where the exhaustive search does). CP-SAT
+    looks for the fewest parts within ``within`` (±1 % without it), then the smallest error.
 
     Raises
     ------
@@ -212,19 +249,34 @@ def search_frontier(
                floor <= _total_parts(stock) else "use higher-rated parts")
             + ", or relax the derating"
         )
-    cap = EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS_MAX if len(stock) <= SMALL_BIN else EXACT_PARTS
-    engine, exact_k = _exact_engine(stock, min(limit, cap))
-    rows = _exact_rows(engine, target_ohms, stock, exact_k, within, alternatives, on_progress, point, derating)
+    cap = EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS_MAX
+    chosen = _ENGINE.get() if engine is None else engine
+    if chosen not in ENGINES:
+        raise ArgumentError(f"engine={chosen!r}: choose one of {', '.join(ENGINES)}")
+    exact, exact_k = _exact_engine(stock, min(limit, cap))
+    if chosen == "exhaustive":
+        limit = exact_k
+    rows = _exact_rows(exact, target_ohms, stock, exact_k, within, alternatives, on_progress, point, derating)
+    interrupted = False  # Ctrl-C stopped CP-SAT (its rows are then what it had)
     reached = rows and within is not None and abs(rows[-1].best.error) <= within
     if limit > exact_k and not reached:
         if on_progress:
             on_progress(f"searching regular arrays of up to {limit} parts")
         screen = point if point is not None else NEGLIGIBLE_DRIVE
-        first = max(exact_k + 1, floor)
+        first = max(exact_k + 1, floor, _rayleigh_floor(target_ohms, stock, reach, within))
+        array_rows = []
         for design in search_arrays(target_ohms, stock, screen, derating, limit, within, min_parts=first):
             row = _array_row(design, stock, point, derating)
             if row is not None:
-                rows.append(row)
+                array_rows.append(row)
+        if chosen in ("auto", "cpsat"):
+            family_rows, interrupted = _family_rows(target_ohms, stock, point, derating, limit, within,
+                                                    rows + array_rows, chosen == "cpsat", on_progress)
+            if chosen == "cpsat":
+                array_rows = []
+            array_rows, family_rows = _merge_proofs(array_rows, family_rows)
+            rows += family_rows
+        rows += array_rows
     # every exhaustive row stays (one per part count); array rows only where they improve on fewer parts
     exhaustive = [r for r in rows if r.method == "exhaustive"]
     rows = exhaustive + [r for r in _pareto(rows) if r.method != "exhaustive"]
@@ -235,12 +287,18 @@ def search_frontier(
             if abs(row.best.error) <= within:
                 rows, within_met = rows[: i + 1], True
                 break
+    if not rows and interrupted:
+        raise InfeasibleError("interrupted (Ctrl-C) before the search found a network that keeps every part "
+                              "within its derated limits; run it again and let it finish, or allow it more parts")
     if not rows:
+        searched = {"arrays": "the array search uses at most two values, so stock counts can limit it",
+                    "exhaustive": f"the exhaustive search stops at {exact_k} parts"}.get(
+            chosen, "neither the arrays nor CP-SAT found one")
         raise InfeasibleError(
             f"no network of up to {limit} parts keeps every part within its derated limits ({bound.explain()}; "
-            "the array search uses at most two values, so stock counts can limit it); allow more parts, use "
-            "higher-rated parts, or relax the derating"
+            f"{searched}); allow more parts, use higher-rated parts, or relax the derating"
         )
+    rows = [replace(r, fewest=_fewest_possible(r, target_ohms, stock, point, derating, reach)) for r in rows]
     return Frontier(tuple(rows), bound, reach, limit, exact_k, within_met)
 
 
@@ -248,6 +306,26 @@ def _total_parts(stock: StockBin) -> int:
     """How many parts the bin holds in all (a large number when some line is unlimited)."""
     counts = [item.count for item in stock.items]
     return MAX_ARRAY_PARTS if any(c is None for c in counts) else max(1, sum(counts))
+
+
+def _rayleigh_floor(target_ohms: float, stock: StockBin, reach: Reach, within: float | None) -> int:
+    """The fewest parts whose networks can come within ``within`` (default :data:`DEFAULT_ACCEPT`) of a
+    target beyond the bin's span; arrays of fewer parts are not evaluated.
+
+    Outside the span the closest n-part network is bounded by Rayleigh's monotonicity law (see
+    :class:`Reach`): at most the sum of the n largest values, at least the parallel bank of the n
+    largest conductances. Those rows could only list networks far from the target.
+    """
+    if reach.direction == 0 or reach.parts is None:
+        return 1
+    accept = within if within is not None else DEFAULT_ACCEPT
+    values, counts = value_pool(stock)
+    if reach.direction > 0:  # series of the largest values: n parts reach at most their sum
+        sizes, goal = sorted(zip(values, counts), key=lambda vc: -vc[0]), target_ohms * (1 - accept)
+    else:  # parallel of the smallest: n parts reach down to 1 / (sum of conductances)
+        sizes, goal = [(1.0 / v, c) for v, c in sorted(zip(values, counts))], (1.0 / target_ohms) / (1 + accept)
+    need = _fewest([x for x, _ in sizes], [c for _, c in sizes], goal)
+    return max(1, min(reach.parts, need if need is not None else reach.parts))
 
 
 def _exact_engine(stock: StockBin, k: int) -> tuple[ExactSearch, int]:
@@ -305,6 +383,112 @@ def _array_row(design, stock, point, derating) -> FrontierRow | None:
         return None
     found, stress = tied
     return FrontierRow(found.parts, found, (), proven=False, method=design.family, stress=stress)
+
+
+def _family_rows(target, stock, point, derating, limit, within, known, force,
+                 on_progress) -> tuple[list[FrontierRow], bool]:
+    """CP-SAT rows: per family, the fewest parts within the accuracy, then the smallest error; and
+    whether Ctrl-C stopped the search (the rows are then what the solver had).
+
+    ``known`` rows seed the search: the fewest parts among them inside the accuracy window is the
+    incumbent that lets :func:`netsynth.search.cpsat.family_search` prune options exactly.
+    Without OR-Tools (``auto``) no rows are added.
+    """
+    from netsynth.search import cpsat, solver  # cpsat imports OR-Tools only when it solves
+
+    accept = within if within is not None else DEFAULT_ACCEPT
+    if not accept > 0 or (not force and not solver.available()):
+        return [], False
+    inside = [r.parts for r in known if abs(r.best.error) <= accept]
+    incumbent = min(inside) if inside else None
+    out: list[FrontierRow] = []
+    deadline = CPSAT_SECONDS
+    for i, family in enumerate(cpsat.FAMILIES):
+        if on_progress:
+            on_progress(f"CP-SAT: {cpsat.FAMILY_TEXT[family]}, up to {limit} parts")
+        share = deadline / (len(cpsat.FAMILIES) - i)
+        settings = solver.SolverSettings(seconds=max(share, 0.1))
+        answer = cpsat.family_search(target, stock, family, accept, limit, point, derating, "parts", incumbent,
+                                     settings, force, on_progress)
+        deadline -= answer.seconds if answer is not None else 0.0
+        if answer is not None and answer.interrupted and answer.found is None:
+            return out, True  # Ctrl-C before a first solution: search no further
+        if answer is None or answer.found is None:
+            continue
+        stop = answer.interrupted  # Ctrl-C: keep what this family found, search no further
+        tied = _tied(answer.found, stock, point, derating)
+        if tied is None:  # the model's filter and the nodal stress check disagree: never shown
+            if stop:
+                return out, True
+            continue
+        found, stress = tied
+        note = (f"cp-sat {family}: {cpsat.FAMILY_TEXT[family]}, each of up to {cpsat.BANK_PARTS} parts from at most "
+                f"two stock lines; {answer.describe()}: ")
+        if answer.status == "optimal":
+            note += (f"no network of the family with fewer parts lands within ±{accept * 100:g} %"
+                     + (" and keeps every part within its limits" if point is not None else "")
+                     + f", and none of {found.parts} parts lands closer by more than "
+                     f"{answer.resolution * 1e6:.2g} ppm")
+        elif answer.first_proven:
+            note += f"no network of the family with fewer parts lands within ±{accept * 100:g} %; the error is the best found in the time limit"
+        else:
+            note += "not proven: the time limit came first, or the model was too large to prove"
+        out.append(FrontierRow(found.parts, found, (), proven=False, method=f"cp-sat {family}", stress=stress,
+                               status=answer.describe(), note=note))
+        incumbent = found.parts if incumbent is None else min(incumbent, found.parts)
+        if stop:
+            return out, True
+    return out, False
+
+
+def _merge_proofs(array_rows: list[FrontierRow], family_rows: list[FrontierRow]):
+    """An array as close as a CP-SAT row of its part count keeps its place and takes that row's proof.
+
+    The proof is about the family (no family network of fewer parts lands inside the accuracy, none
+    of this count lands closer), so it holds for any network of that count at least as close.
+    """
+    kept: list[FrontierRow] = []
+    arrays = list(array_rows)
+    for row in family_rows:
+        i = next((i for i, a in enumerate(arrays) if a.parts == row.parts
+                  and abs(a.best.error) <= abs(row.best.error) + SAME_ERROR), None)
+        if i is None:
+            kept.append(row)
+        else:
+            arrays[i] = replace(arrays[i], status=row.status, note=row.note + "; the array shown lands as close")
+    return arrays, kept
+
+
+def _fewest_possible(row: FrontierRow, target, stock, point, derating, reach: Reach) -> bool:
+    """Whether no network of any shape with fewer parts lands as close to the target within the limits.
+
+    Two lower bounds, each holding for every series/parallel network: with an operating point, the
+    power and voltage bound (:func:`netsynth.search.arrays.part_lower_bound`), taken at both ends of
+    the row's own error window (power and voltage are monotone in the value, so the ends bound it);
+    and the reach: beyond the bin's largest (smallest) value, n − 1 parts make at most (at least)
+    the sum of the n − 1 largest values (conductances), Rayleigh's monotonicity law.
+    """
+    if row.parts <= 1:
+        return False
+    e = abs(row.best.error)
+    if point is not None:
+        ends = [target * (1 - e), target * (1 + e)] if e < 1 else [target * (1 + e)]
+        if row.parts <= min(part_lower_bound(t, stock, point, derating).count for t in ends):
+            return True
+    if reach.direction == 0 or reach.parts is None or row.parts != reach.parts:
+        return False
+    # the extreme n − 1 parts reach: the largest values in series (above), conductances in parallel (below)
+    series_up = reach.direction > 0
+    pool = sorted(zip(*value_pool(stock)), key=lambda vc: -vc[0] if series_up else vc[0])
+    left, total = row.parts - 1, 0.0
+    for v, c in pool:
+        take = left if c is None else min(c, left)
+        total += take * (v if series_up else 1.0 / v)
+        left -= take
+        if left == 0:
+            break
+    closest_fewer = total / target - 1.0 if series_up else 1.0 / (total * target) - 1.0
+    return e < abs(closest_fewer) - SAME_ERROR
 
 
 def _pareto(rows: list[FrontierRow]) -> list[FrontierRow]:

@@ -30,8 +30,19 @@ max_temp    upper category temperature in °C, where derating reaches zero power
 package     free text (``0805``, ``axial``)
 location    free text (``drawer A3``)
 note        free text
+measured    an individually measured part's own value, e.g. ``4.6982k``; see below
+uncertainty that measurement's uncertainty, e.g. ``0.01%``, ``50ppm``; required with ``measured``
 (others)    kept in ``StockItem.extra`` and otherwise ignored
 ==========  ==============================================================================
+
+* **Measured parts.** A row with a ``measured`` value is one part whose value is known: its
+  ``qty`` must be 1 (blank counts as 1), and ``uncertainty`` is required.  The item's ``ohms``
+  is the measured value and its ``tolerance`` the uncertainty, so the search, the bands and
+  the pick list use what the part really is; the marked value (``value``) is kept in
+  ``StockItem.extra`` as ``("nominal", text)``, which ``save_bin`` writes as a ``nominal``
+  column (a file that has its own ``nominal`` column cannot use ``measured``).  The row's
+  ``tolerance`` cell, the maker's band around the marked value, no longer applies and is
+  ignored.  Two measured rows of the same value and ratings merge as any other rows do.
 
 * A line whose first cell starts with ``#`` is a comment; comments may come before the header.
   Fully blank lines (also ``,,,``) are skipped.
@@ -73,7 +84,7 @@ import stat
 from collections.abc import Callable, Iterable
 from decimal import Decimal
 
-from netsynth import values
+from netsynth import limits, values
 from netsynth.errors import StockError, ValueParseError
 from netsynth.stock.items import (
     COLUMNS,
@@ -94,39 +105,75 @@ from netsynth.stock.items import (
     _problem_volts,
 )
 
-__all__ = ["load_bin", "save_bin"]
+__all__ = ["MEASURED_COLUMNS", "load_bin", "save_bin"]
+
+#: columns read only by ``load_bin``: an individually measured part (see the module docstring)
+MEASURED_COLUMNS = ("measured", "uncertainty")
+#: the extra column that keeps a measured part's marked value
+NOMINAL_COLUMN = "nominal"
 
 
 # --------------------------------------------------------------------------- reading
 
 
+def _shown(path: str) -> str:
+    """The path for a message: whole unless absurdly long, else its last 160 characters (the file's own name)."""
+    if len(path) <= 160 and path.isprintable():
+        return path
+    flat = " ".join("".join(c if c.isprintable() else " " for c in path[-1000:]).split())
+    return flat if len(flat) <= 160 else "..." + flat[-157:]
+
+
 def _read_text(path: str) -> str:
+    """The file's text, read with a size cap (limits.MAX_BIN_BYTES).
+
+    At most cap + 1 bytes are read, so an endless device (``/dev/zero``) or pipe is refused,
+    never read to the end. The file is opened without blocking (a FIFO nobody writes to then
+    reads as empty instead of hanging), and then read blocking as usual.
+    """
+    shown = _shown(path)
     try:
-        with open(path, "rb") as f:
-            data = f.read()
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_BINARY", 0))
+        with os.fdopen(fd, "rb") as f:
+            if hasattr(os, "set_blocking"):
+                os.set_blocking(fd, True)
+            data = f.read(limits.MAX_BIN_BYTES + 1)
+    except ValueError:  # a NUL character: no file can have that name
+        raise StockError(f"cannot open '{shown}': a file name cannot contain a NUL character") from None
     except FileNotFoundError:
-        raise StockError(f"cannot open {path!r}: no such file; check the path, "
+        raise StockError(f"cannot open '{shown}': no such file; check the path, "
                          "or leave the bin out to use the built-in default") from None
     except IsADirectoryError:
-        raise StockError(f"cannot open {path!r}: it is a folder; give the path of a bin file (.csv)") from None
+        raise StockError(f"cannot open '{shown}': it is a folder; give the path of a bin file (.csv)") from None
     except PermissionError:
-        raise StockError(f"cannot open {path!r}: permission denied; check the file's permissions") from None
+        raise StockError(f"cannot open '{shown}': permission denied; check the file's permissions") from None
     except OSError as e:
-        raise StockError(f"cannot open {path!r}: {e.strerror or e}") from None
+        raise StockError(f"cannot open '{shown}': {e.strerror or limits.excerpt(str(e))}") from None
+    if len(data) > limits.MAX_BIN_BYTES:
+        raise StockError(f"{shown}: the file is larger than {limits.MAX_BIN_BYTES // 2**20} MiB, the most a bin "
+                         "file may hold (is it a bin file?)")
     try:
-        return data.decode("utf-8-sig")
+        text = data.decode("utf-8-sig")
     except UnicodeDecodeError as e:
         line = data[: e.start].count(b"\n") + 1
-        raise StockError(f"{path}, line {line}: byte 0x{data[e.start]:02x} is not UTF-8 text; "
+        raise StockError(f"{shown}, line {line}: byte 0x{data[e.start]:02x} is not UTF-8 text; "
                          "save the file as UTF-8 (CSV UTF-8 in a spreadsheet)") from None
+    for number, physical in enumerate(text.split("\n"), start=1):
+        if len(physical) > limits.MAX_BIN_LINE_CHARS:
+            raise StockError(f"{shown}, line {number}: the line has {len(physical)} characters; a bin line "
+                             f"holds at most {limits.MAX_BIN_LINE_CHARS}")
+    return text
 
 
 def _parse_qty(text: str) -> int | None:
     if not text:
         return None
     if not re.fullmatch(r"\+?[0-9]+", text):
-        raise ValueParseError(f"cannot read {text!r}: expected a whole number of parts, "
+        raise ValueParseError(f"cannot read '{limits.excerpt(text)}': expected a whole number of parts, "
                               "or blank for as many as needed")
+    if len(text.lstrip("+0")) > len(str(limits.MAX_QTY)) or int(text) > limits.MAX_QTY:
+        raise ValueParseError(f"cannot read '{limits.excerpt(text)}': a line holds at most {limits.MAX_QTY} "
+                              "parts; leave qty blank for as many as needed")
     return int(text)
 
 
@@ -137,9 +184,9 @@ _TEMP_RE = re.compile(r"(?P<num>[+-]?(?:\d+\.?\d*|\.\d+))\s*(?:°\s*[Cc]|\u2103|
 def _parse_temp_c(text: str) -> float:
     """Read a temperature in °C (``155``, ``155C``, ``155 °C``, ``125°C``); range checked apart."""
     s = text.strip()
-    m = _TEMP_RE.fullmatch(s)
+    m = _TEMP_RE.fullmatch(s) if len(s) <= limits.MAX_VALUE_CHARS else None
     if not m:
-        raise ValueParseError(f"cannot read {s!r}: expected a temperature in °C such as 155, "
+        raise ValueParseError(f"cannot read '{limits.excerpt(s)}': expected a temperature in °C such as 155, "
                               "155C or 125 °C")
     return float(m["num"])
 
@@ -204,26 +251,35 @@ def load_bin(path: str | os.PathLike) -> StockBin:
     name = os.fspath(path)
     if isinstance(name, bytes):
         name = os.fsdecode(name)
-    rows = _rows(_read_text(name), name)
-    header_line, header = _header(rows, name)
+    shown = _shown(name)
+    rows = _rows(_read_text(name), shown)
+    header_line, header = _header(rows, shown)
 
+    if len(header) > limits.MAX_BIN_COLUMNS:
+        raise StockError(f"{shown}, line {header_line}: the header names {len(header)} columns; a bin file "
+                         f"has at most {limits.MAX_BIN_COLUMNS}")
     columns = [_normalize_column(cell) for cell in header]
     if "value" not in columns:
-        found = ", ".join(repr(cell) for cell in header if cell) or "none"
-        raise StockError(f"{name}, line {header_line}: the header has no 'value' column "
+        found = limits.excerpt(", ".join(repr(cell) for cell in header if cell) or "none", 60)
+        raise StockError(f"{shown}, line {header_line}: the header has no 'value' column "
                          f"(columns found: {found}); the first row that is not a comment must "
                          "name the columns, e.g. value,qty,tolerance")
+    first_of: dict[str, int] = {}
     for i, key in enumerate(columns):
-        if key and key in columns[:i]:
-            raise StockError(f"{name}, line {header_line}: the header names column "
-                             f"{header[i]!r} twice (columns {columns.index(key) + 1} and {i + 1}); "
+        if key and key in first_of:
+            raise StockError(f"{shown}, line {header_line}: the header names column "
+                             f"'{limits.excerpt(header[i])}' twice (columns {first_of[key] + 1} and {i + 1}); "
                              "keep one")
+        first_of.setdefault(key, i)
 
     items: list[StockItem] = []
     seen_row = False
     for line, cells in rows:
         seen_row = True
-        where = f"{name}, line {line}"
+        if len(items) >= limits.MAX_BIN_ROWS:
+            raise StockError(f"{shown}, line {line}: the file lists more than {limits.MAX_BIN_ROWS} rows, the most "
+                             "a bin file may hold; split it")
+        where = f"{shown}, line {line}"
         if len(cells) > len(header):
             raise StockError(f"{where}: the row has {len(cells)} cells but the header names "
                              f"{len(header)} column{'s' if len(header) > 1 else ''}; remove the "
@@ -232,22 +288,22 @@ def load_bin(path: str | os.PathLike) -> StockBin:
         row = {}
         extra = []
         for number, (key, title, cell) in enumerate(zip(columns, header, cells), start=1):
-            if key in COLUMNS:
+            if key in COLUMNS or key in MEASURED_COLUMNS:
                 row[key] = cell
             elif cell:
                 if not key:
                     raise StockError(f"{where}, column {number}: the cell "
-                                     f"{cell!r} is under a column with no name; name the column "
+                                     f"'{limits.excerpt(cell)}' is under a column with no name; name the column "
                                      "in the header or remove the cell")
                 extra.append((title, cell))
         items.append(_read_row(row, extra, where, line))
 
     if not seen_row:
-        raise StockError(f"{name}: the header is on line {header_line} but no row lists a part; "
+        raise StockError(f"{shown}: the header is on line {header_line} but no row lists a part; "
                          "add rows such as 4k7,10")
     merged = [item for item in _merge(items) if item.count != 0]
     if not merged:
-        raise StockError(f"{name}: every row has qty 0, so the bin holds no parts; "
+        raise StockError(f"{shown}: every row has qty 0, so the bin holds no parts; "
                          "give a quantity, or leave qty blank for as many as needed")
     return StockBin(tuple(merged), name=name)
 
@@ -265,7 +321,7 @@ def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str, lin
     except ValueParseError as e:
         raise fail("value", str(e)) from None
     if problem := _problem_ohms(ohms):
-        raise fail("value", f"{text!r} reads as {ohms!r} ohms; {problem}")
+        raise fail("value", f"'{limits.excerpt(text)}' reads as {ohms!r} ohms; {problem}")
     try:
         count = _parse_qty(row.get("qty", ""))
     except ValueParseError as e:
@@ -282,13 +338,25 @@ def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str, lin
         except ValueParseError as e:
             raise fail(field, str(e)) from None
         if problem := check(number):
-            raise fail(field, f"{cell!r} reads as {number!r}; {problem}")
+            raise fail(field, f"'{limits.excerpt(cell)}' reads as {number!r}; {problem}")
         numbers_[field] = number
 
+    tolerance = numbers_["tolerance"]
+    measured = _read_measured(row, fail)
+    if measured is not None:
+        if count not in (None, 1):
+            raise fail("qty", f"a measured part is one part: qty must be 1 or blank, not {count}; list each "
+                              "measured part on its own row")
+        if any(_normalize_column(name) == NOMINAL_COLUMN for name, _ in extra):
+            raise fail("measured", f"the file has its own {NOMINAL_COLUMN!r} column, where a measured part keeps "
+                                   "its marked value; rename that column")
+        count = 1
+        ohms, tolerance = measured
+        extra = [*extra, (NOMINAL_COLUMN, text)]
     return StockItem(
         ohms=ohms,
         count=count,
-        tolerance=numbers_["tolerance"],
+        tolerance=tolerance,
         power_rating_w=numbers_["watts"],
         max_volts=numbers_["max_volts"],
         tcr_ppm=numbers_["tcr"],
@@ -299,6 +367,31 @@ def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str, lin
         extra=tuple(extra),
         line=line,
     )
+
+
+def _read_measured(row: dict[str, str], fail: Callable[[str, str], StockError]) -> tuple[float, float] | None:
+    """(measured ohms, uncertainty) of a row with a ``measured`` cell, else None."""
+    text, unc = row.get("measured", ""), row.get("uncertainty", "")
+    if not text:
+        if unc:
+            raise fail("uncertainty", "an uncertainty belongs to a measured value; fill in 'measured' or "
+                                      "clear the cell")
+        return None
+    try:
+        ohms = values.parse_resistance(text)
+    except ValueParseError as e:
+        raise fail("measured", str(e)) from None
+    if problem := _problem_ohms(ohms):
+        raise fail("measured", f"{text!r} reads as {ohms!r} ohms; {problem}")
+    if not unc:
+        raise fail("uncertainty", "a measured value needs its measurement uncertainty, such as 0.01% or 50ppm")
+    try:
+        uncertainty = values.parse_tolerance(unc)
+    except ValueParseError as e:
+        raise fail("uncertainty", str(e)) from None
+    if problem := _problem_tolerance(uncertainty):
+        raise fail("uncertainty", f"{unc!r} reads as {uncertainty!r}; {problem}")
+    return ohms, uncertainty
 
 
 # --------------------------------------------------------------------------- writing

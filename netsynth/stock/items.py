@@ -24,6 +24,7 @@ import re
 from collections.abc import Iterable
 from dataclasses import dataclass
 
+from netsynth import limits
 from netsynth.errors import StockError
 
 __all__ = [
@@ -81,6 +82,8 @@ def _problem_ohms(ohms: object) -> str | None:
     if not _real(ohms) or not math.isfinite(ohms) or not ohms > 0:
         return ("a bin lists resistances that are finite and greater than zero; "
                 "leave jumpers and open positions out")
+    if not limits.MIN_OHMS <= ohms <= limits.MAX_OHMS:
+        return f"a bin lists resistances from {limits.OHMS_RANGE}"
     return None
 
 
@@ -89,30 +92,40 @@ def _problem_count(count: object) -> str | None:
         return None
     if not isinstance(count, numbers.Integral) or isinstance(count, bool) or count < 0:
         return "expected a whole number of parts (0 or more), or None for as many as needed"
+    if count > limits.MAX_QTY:
+        return f"a line holds at most {limits.MAX_QTY} parts; leave the quantity blank for as many as needed"
     return None
 
 
 def _problem_tolerance(tol: object) -> str | None:
     if not _real(tol) or not 0 <= tol < 1:
         return "a tolerance must be at least 0 % and less than 100 %, such as 1 % (0.01)"
+    if 0 < tol < limits.MIN_FRACTION:
+        return f"a tolerance is 0, or from {limits.FRACTION_RANGE}"
     return None
 
 
 def _problem_power(watts: object) -> str | None:
     if not _real(watts) or not math.isfinite(watts) or not watts > 0:
         return "a power rating must be greater than zero, such as 0.25 W"
+    if not limits.MIN_RATING_W <= watts <= limits.MAX_WATTS:
+        return f"a power rating must be from {limits.RATING_RANGE}"
     return None
 
 
 def _problem_volts(volts: object) -> str | None:
     if not _real(volts) or not math.isfinite(volts) or not volts > 0:
         return "a voltage limit must be greater than zero, such as 200 V"
+    if not limits.MIN_VOLTS <= volts <= limits.MAX_VOLTS:
+        return f"a voltage limit must be from {limits.VOLTS_RANGE}"
     return None
 
 
 def _problem_tcr(tcr: object) -> str | None:
     if not _real(tcr) or not math.isfinite(tcr) or tcr < 0:
         return "a TCR here is a magnitude in ppm/K, 0 or more, such as 100 for ±100 ppm/K"
+    if tcr > limits.MAX_TCR_PPM or 0 < tcr < limits.MIN_TCR_PPM:
+        return f"a TCR here is {limits.TCR_RANGE}"
     return None
 
 
@@ -120,6 +133,8 @@ def _problem_max_temp(temp_c: object) -> str | None:
     if not _real(temp_c) or not math.isfinite(temp_c) or not temp_c > _RATED_AMBIENT_C:
         return ("an upper category temperature must be a finite number of °C above the 70 °C "
                 "rated ambient (IEC 60115-1), such as 155 (thick film) or 125 (some thin film)")
+    if temp_c > limits.MAX_TEMP_C:
+        return f"an upper category temperature is at most {limits.MAX_TEMP_C:g} °C"
     return None
 
 
