@@ -418,7 +418,8 @@ def as_factor(x: float | str | None, name: str) -> float | None:
     if isinstance(x, str):
         m = _FACTOR.fullmatch(_short_text(name, x))
         if not m:
-            raise ValueParseError(f"{name}: cannot read '{limits.excerpt(x.strip())}': expected a fraction such as 0.5 or 50%")
+            raise ValueParseError(f"{name}: cannot read '{limits.excerpt(x.strip())}': "
+                                  "expected a fraction such as 0.5 or 50%")
         value = float(f"{m['num']}e{-2 if m['pct'] else 0}")  # one correctly rounded conversion
     elif _is_number(x):
         value = _float(x)

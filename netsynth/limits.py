@@ -48,6 +48,7 @@ __all__ = [
     "MAX_BIN_ROWS",
     "MAX_EXPRESSION_CHARS",
     "MAX_LEVELS",
+    "MAX_LINES_PER_VALUE",
     "MAX_NESTING",
     "MAX_NETLIST_EDGES",
     "MAX_NETLIST_NODES",
@@ -173,14 +174,20 @@ MAX_BIN_COLUMNS = 64
 #: rows (stock lines) of a bin file, comments and blank lines not counted. A full E192 series
 #: from 1 Ω to 10 MΩ is 1344 values; a bin of ten thousand lines is a warehouse.
 MAX_BIN_ROWS = 10_000
+#: stock lines of one value (rows of one value with different ratings, or different drawers'
+#: texts that did not merge). Tying parts to lines is a matching over the lines of a value; a
+#: hundred lines of one value is already a warehouse of one part.
+MAX_LINES_PER_VALUE = 100
 
 #: resistors and nodes of a netlist the nodal solver takes: one edge per part of the largest
 #: network, and at most one node more than edges in a connected two-terminal netlist.
 MAX_NETLIST_EDGES = MAX_PARTS
 MAX_NETLIST_NODES = MAX_PARTS + 1
-#: off-diagonal entries the nodal solver's sparse elimination may create. A series/parallel
-#: network creates at most a few per node (about 3 × 10⁴ for the largest); a general netlist
-#: whose elimination would create more is refused rather than allowed to fill gigabytes.
+#: work of the nodal solver's sparse elimination: the sum over eliminated nodes of (degree)²,
+#: which bounds both the entries it creates and its time (about a second at the bound). A
+#: series/parallel network needs a few per node (measured: at most 1.3 × 10⁴ for 10 000 parts); a general
+#: netlist that needs more (a 70 × 70 resistor mesh) is refused rather than allowed to fill
+#: gigabytes.
 MAX_NODAL_FILL = 2_000_000
 
 # ------------------------------------------------------------------ text in messages

@@ -460,8 +460,13 @@ def solve_network(
     VerificationError
         On an invalid edge, a node index outside ``0..node_count-1``,
         ``source == sink``, no path from source to sink, a node that floats
-        (not connected to the terminals, or with no edges at all), or values
-        spanning too many decades (> ~15) for a float64 solve.
+        (not connected to the terminals, or with no edges at all), a resistance
+        outside 1 µΩ .. 1 TΩ, or values spanning too many decades (> ~15) for a
+        float64 solve.
+    ArgumentError
+        On more than :data:`netsynth.limits.MAX_NETLIST_EDGES` edges or
+        :data:`netsynth.limits.MAX_NETLIST_NODES` nodes, a drive above 1 MV, or a
+        netlist whose sparse elimination would exceed :data:`netsynth.limits.MAX_NODAL_FILL`.
 
     Notes
     -----

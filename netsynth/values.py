@@ -47,8 +47,15 @@ Other quantities:
   magnitude only (a sign is read and dropped).
 * range (:func:`parse_range`): ``10..1M``, ``1R..10M``.
 
-Writers: :func:`format_ohms` (``4.7 kΩ``), :func:`to_code` (``4k7``) and
-:func:`format_error` (``+0.12 %``, ``-3.2 ppm``).
+Limits (:mod:`netsynth.limits`): every reader refuses text of more than 64 characters before
+any pattern sees it, and values outside the accepted ranges (resistance 1 µΩ .. 1 TΩ, voltage
+1 µV .. 1 MV, current 1 pA .. 10 kA, power 1 pW .. 1 MW, duty from 1 ppm, non-zero fractions
+from 1e-12, TCR up to 1e4 ppm/K), with one :class:`~netsynth.errors.ValueParseError` line that
+quotes at most 40 characters of the text.
+
+Writers: :func:`format_ohms` (``4.7 kΩ``), :func:`to_code` (``4k7``),
+:func:`format_quantity` (``1.5 pA``) and :func:`format_error` (``+0.12 %``, ``-3.2 ppm``);
+all stay short at any magnitude (an engineering exponent beyond the prefixes: ``500e-09 Ω``).
 """
 
 from __future__ import annotations
@@ -100,7 +107,8 @@ def _text(text: object, what: str) -> str:
     megabyte of digits costs nothing (and never reaches a pattern that could backtrack).
     """
     if not isinstance(text, str):
-        raise ValueParseError(f"cannot read {what} from {type(text).__name__}: expected text such as {_EXAMPLES.get(what, '4k7')}")
+        raise ValueParseError(f"cannot read {what} from {type(text).__name__}: "
+                              f"expected text such as {_EXAMPLES.get(what, '4k7')}")
     s = text.strip()
     if len(s) > limits.MAX_VALUE_CHARS:
         raise _fail(s, f"{what} is written in at most {limits.MAX_VALUE_CHARS} characters; "

@@ -10,6 +10,8 @@ from hypothesis import HealthCheck, settings
 
 settings.register_profile("ci", max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 settings.register_profile("dev", deadline=None)
+# a slow local search for hostile input (tests/test_fuzz.py runs a quarter of max_examples per property)
+settings.register_profile("fuzz", max_examples=2000, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 settings.load_profile(os.environ.get("HYPOTHESIS_PROFILE", "dev"))
 
 

@@ -14,8 +14,8 @@ nested expressions — the rules hold:
 
 Examples per property scale with the Hypothesis profile (tests/conftest.py): a quarter of the
 profile's ``max_examples``, so the default run (`.ci/run`) stays at a few hundred examples in
-all; ``HYPOTHESIS_PROFILE=ci`` doubles that, and a profile with more examples runs longer
-(e.g. ``settings.register_profile("fuzz", max_examples=4000)``) for a slow local search.
+all (25 per property); ``HYPOTHESIS_PROFILE=ci`` doubles that, and ``HYPOTHESIS_PROFILE=fuzz``
+(500 per property) is the slow local search.
 """
 
 from __future__ import annotations

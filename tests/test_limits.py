@@ -274,6 +274,15 @@ def test_bin_row_limit(tmp_path):
     assert f"more than {limits.MAX_BIN_ROWS} rows" in _one_line(info.value)
 
 
+def test_lines_of_one_value_limit(tmp_path):
+    # rows of one value stay separate lines when their ratings differ (here the tcr)
+    rows = "".join(f"1k,1,{i + 1}\n" for i in range(limits.MAX_LINES_PER_VALUE))
+    assert len(load_bin(_bin(tmp_path, "value,qty,tcr\n" + rows))) == limits.MAX_LINES_PER_VALUE
+    with pytest.raises(StockError) as info:
+        load_bin(_bin(tmp_path, "value,qty,tcr\n" + rows + "1k,1,999\n"))
+    assert "at most 100 lines of one value" in _one_line(info.value)
+
+
 def test_bin_qty_limit(tmp_path):
     assert load_bin(_bin(tmp_path, HEADER + f"1k,{limits.MAX_QTY}\n")).items[0].count == limits.MAX_QTY
     for qty in (limits.MAX_QTY + 1, "9" * 4000):  # 4000 digits: still within a line, beyond int()'s own limit

@@ -71,13 +71,14 @@ from netsynth.network import Network, Part, parallel, part_values, resistance, s
 from netsynth.search import cache
 from netsynth.search.tables import (
     KIND_ANY,
+    KIND_PAR,
+    KIND_SER,
     OP_PARALLEL,
     OP_SERIES,
     SAME_VALUE_RTOL,
     UNLIMITED,
     Level,
     Table,
-    build_level,
     compatible,
     first_level,
     join_values,
@@ -85,17 +86,20 @@ from netsynth.search.tables import (
 
 #: query rows (targets × table entries) handled in one numpy step; bounds memory.
 CHUNK_ROWS = 1_000_000
-#: table look-ups one search may need before it is refused as too long; at about
-#: 0.1 µs per pruned look-up on the reference 2-core machine this is about 30 s.
+#: table look-ups one search may need before it is refused as too long; measured 0.05 µs
+#: (E24, 6 parts) to 0.16 µs (E96, 5 parts) per look-up on the reference 2-core machine,
+#: so 15–50 s at worst; typical targets hit an exact network early and take far less.
 MAX_LOOKUPS = 300_000_000
-#: the largest table level built (entries after de-duplication, estimated from the bin's size):
-#: 12 million entries take about 250 MB with their provenance.
+#: the largest table level built (``any`` entries, estimated from the bin's size): a level
+#: holds about twice that many entries over its three tables at 20 bytes each (measured: 5.25 M
+#: on 169 values take 210 MB), so 12 million stay under 500 MB.
 TABLE_BUDGET = 12_000_000
-#: a table level is cached on disk from this many estimated entries on (smaller ones build
-#: in less time than a file takes to read; measured: 30 k entries build in 5 ms).
+#: a table level is cached on disk from this many estimated entries on; smaller ones build
+#: about as fast as a file opens (measured: 25 k entries in 2 ms, 395 k in 40 ms).
 CACHE_FROM = 500_000
-#: share of a table that survives the target-window cut at each level of the recursion
-#: (measured over six targets on E24 and E96 bins: 0.25–0.45; the larger is taken).
+#: share of a table that survives the target-window cut at each level of the recursion, set
+#: so the estimate meets measured look-ups for targets with no exact hit (estimate vs measured:
+#: E24 5 parts 6.5 M vs 6.3 M; E96 5 parts 4.1e8 vs 4.7e8; E24 6 parts 2.4e8 vs 1.1e8).
 PRUNED_SHARE = 0.45
 #: runner-up candidates kept per top-level split (the closest; more only cost witness time).
 KEEP_PER_SPLIT = 32
@@ -128,7 +132,7 @@ def estimated_sizes(values: int, h: int) -> dict[int, int]:
     Two-part networks of distinct values are distinct up to rare coincidences (10 + 20 =
     15 + 15): v(v + 1) of them. Beyond that the canonical pairs of :mod:`.tables` are
     counted, and a level's distinct values are taken as 60 % of its pairs (measured:
-    E24 169 values, 3 parts: 5.2 M distinct of 8.6 M pairs).
+    E24 169 values, 3 parts: 5.25 M distinct of 9.7 M pairs, 54 %).
     """
     sizes = {1: values}
     for n in range(2, h + 1):
@@ -154,7 +158,7 @@ def plan(values: int, max_parts: int) -> tuple[int, int]:
         if sizes[h] > TABLE_BUDGET and h > need:
             break
         work = _lookups(sizes, h, max_parts, 1)
-        cost = work + (sizes[h] * 20 if h > 2 else 0)  # building an entry costs about 20 look-ups
+        cost = work + (sizes[h] * 20 if h > 2 else 0)  # an entry costs ~20 look-ups to build
         if best is None or cost < best[2]:
             best = (h, work, cost)
     assert best is not None
@@ -512,8 +516,7 @@ class _Engine:
 
     @staticmethod
     def _non_kind(op: int) -> int:
-        from netsynth.search.tables import KIND_PAR, KIND_SER
-
+        """The table kind of the children an ``op`` node may have (:meth:`Level.non`)."""
         return KIND_PAR if op == OP_SERIES else KIND_SER
 
     def bounds_any(self, n: int, r: _Rows) -> tuple[np.ndarray, np.ndarray]:
@@ -622,7 +625,8 @@ class _Engine:
         # chunk boundaries at row edges, CHUNK_ROWS entries or more per chunk
         cuts = [0]
         while cuts[-1] < len(counts):
-            k = int(np.searchsorted(ends, ends[cuts[-1]] - counts[cuts[-1]] + CHUNK_ROWS, side="left")) + 1
+            # the rows whose entries end within CHUNK_ROWS of this chunk's first entry (at least one row)
+            k = int(np.searchsorted(ends, begins[cuts[-1]] + CHUNK_ROWS, side="left")) + 1
             cuts.append(min(len(counts), max(k, cuts[-1] + 1)))
         for c0, c1 in zip(cuts[:-1], cuts[1:]):
             cnt = counts[c0:c1]
@@ -703,13 +707,10 @@ class _Engine:
             ok = compatible(table.parts[idx[todo]], used[todo], self.limits)
             todo = todo[~ok]
             idx[todo] += step
-            inside = (idx[todo] >= 0) & (idx[todo] < size)
-            gone = todo[~inside]
-            todo = todo[inside]
+            todo = todo[(idx[todo] >= 0) & (idx[todo] < size)]  # off the table: no entry on that side
             past = (v[idx[todo]] < stop_at[todo]) if step < 0 else (v[idx[todo]] > stop_at[todo])
             idx[todo[past]] = -1 if step < 0 else size
             todo = todo[~past]
-            del gone
         return idx
 
     # ------------------------------------------------------------ witnesses
@@ -821,9 +822,8 @@ def _par_child(edge: np.ndarray, a: np.ndarray, none: float) -> np.ndarray:
     """The x at which a ∥ x equals ``edge`` (the window's edge for x); ``none`` where no x does."""
     with np.errstate(divide="ignore", invalid="ignore"):
         g = 1.0 / edge - 1.0 / a
-        out = np.where(g > 0, 1.0 / np.where(g > 0, g, 1.0), POS if none == POS else POS)
-    out = np.where(np.isfinite(edge) & (edge > 0), out, none)
-    return out
+        out = np.where(g > 0, 1.0 / np.where(g > 0, g, 1.0), POS)
+    return np.where(np.isfinite(edge) & (edge > 0), out, none)
 
 
 def _child_target(op: int, t: np.ndarray, a: np.ndarray) -> np.ndarray:

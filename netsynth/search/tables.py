@@ -148,21 +148,6 @@ def child_kind(op: int, n1: int, n2: int) -> int:
     return KIND_ANY
 
 
-def pair_count(sizes: dict[int, tuple[int, int, int]], n: int) -> int:
-    """Pairs :func:`build_level` forms for n parts, from the (ser, par, any) sizes of smaller levels."""
-    total = 0
-    for op in (OP_SERIES, OP_PARALLEL):
-        for n1 in range(1, n // 2 + 1):
-            n2 = n - n1
-            a = sizes[n1][1] if op == OP_SERIES else sizes[n1][0]
-            if n1 == 1:
-                a = sizes[1][2]
-            kind = child_kind(op, n1, n2)
-            b = sizes[n2][{KIND_ANY: 2, KIND_SER: 0, KIND_PAR: 1}[kind]] if n2 > 1 else sizes[1][2]
-            total += a * (a + 1) // 2 if n1 == n2 else a * b
-    return total
-
-
 def build_level(levels: dict[int, Level], n: int, limits: np.ndarray | None, witness: bool = True) -> Level:
     """The n-part level from the smaller ones; ``limits`` None means counts never bind.
 

@@ -323,7 +323,17 @@ class StockBin:
             raise StockError(f"{label}the bin holds no parts; add at least one value")
         for item in items:
             if not isinstance(item, StockItem):
-                raise StockError(f"{label}expected StockItem entries in the bin, got {item!r}")
+                raise StockError(f"{label}expected StockItem entries in the bin, got {limits.excerpt(repr(item))}")
+        if len(items) > limits.MAX_BIN_ROWS:
+            raise StockError(f"{label}the bin has {len(items)} stock lines; a bin holds at most {limits.MAX_BIN_ROWS}")
+        per_value: dict[float, int] = {}
+        for item in items:  # values equal to 12 digits are one value, as the search pools them
+            key = float(f"{item.ohms:.12g}")
+            per_value[key] = per_value.get(key, 0) + 1
+        crowded = max(per_value, key=per_value.__getitem__)
+        if per_value[crowded] > limits.MAX_LINES_PER_VALUE:
+            raise StockError(f"{label}{per_value[crowded]} stock lines hold {crowded:g} Ω; a bin holds at most "
+                             f"{limits.MAX_LINES_PER_VALUE} lines of one value (rows with the same ratings merge)")
         if not isinstance(self.name, str):
             raise StockError(f"a bin name is text, got {self.name!r}")
         ordered = sorted(items, key=bin_order)
