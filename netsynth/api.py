@@ -41,7 +41,7 @@ from netsynth.nodal import VERIFY_RTOL, verify_resistance
 from netsynth.render import notebook  # noqa: F401  (registers the notebook display of results)
 from netsynth.search.exact import Found
 from netsynth.inputs import PREFERENCES, Preference
-from netsynth.search.frontier import pick, search_frontier
+from netsynth.search.frontier import ENGINES, Engine, pick, search_frontier
 from netsynth.stock import StockBin, StockItem, bin_order
 from netsynth.values import to_code
 
@@ -61,6 +61,7 @@ def make(
     prefer: Preference = "error",
     spec: float | str | None = None,
     temp_c: float | str | None = None,
+    engine: Engine = "auto",
 ) -> Design:
     """Find the best series/parallel network for each part count, checked and verified.
 
@@ -80,6 +81,8 @@ def make(
     prefer : what ranks the recommended network first: ``error``, ``parts`` or ``headroom``
     spec : the builder's acceptance band (fraction or text such as ``"1%"``) for the Monte Carlo yield
     temp_c : a temperature (°C) at which to report the value band
+    engine : how part counts above the exhaustive range are searched: ``auto`` (arrays, and CP-SAT
+        where its model stays small), ``arrays``, ``cpsat`` or ``exhaustive`` (no larger counts)
 
     Raises
     ------
@@ -100,8 +103,11 @@ def make(
     spec = as_fraction(spec, "spec")
     temp_c = as_temp_c(temp_c, "temp_c")
     _check_conditions(point, derating, prefer)
+    if engine not in ENGINES:
+        raise ArgumentError(f"engine={engine!r}: choose one of {', '.join(ENGINES)}")
     start = time.perf_counter()
-    found = search_frontier(target_ohms, stock, max_parts, within, alternatives, on_progress, point, derating)
+    found = search_frontier(target_ohms, stock, max_parts, within, alternatives, on_progress, point, derating,
+                            engine=engine)
     frontier = tuple(
         FrontierEntry(
             row=row,

@@ -28,7 +28,7 @@ from netsynth.network import parts_in_order, to_netlist
 from netsynth.nodal import solve_network
 from netsynth.search.cpsat import FAMILIES, family_search
 from netsynth.search.exact import ExactSearch
-from netsynth.search.frontier import ENGINES, using_engine
+from netsynth.search.frontier import ENGINES
 from netsynth.search.solver import SolverSettings
 from netsynth.stock import StockBin, StockItem, kit_bin
 
@@ -218,8 +218,7 @@ def test_equal_parts_reach_the_closed_form(derate, stock, expected, runner):
     assert expected == math.ceil(5.0 / (derate * 0.25))
     derating = Derating(derate, 1.0)
     bin_ = drawer(*stock)
-    with using_engine("cpsat"):
-        design = make(10.0, bin_, point=OperatingPoint(watts=5.0), derating=derating, alternatives=0)
+    design = make(10.0, bin_, point=OperatingPoint(watts=5.0), derating=derating, alternatives=0, engine="cpsat")
     best = design.best
     assert best.parts == expected and abs(best.error) < 1e-12
     entry = next(e for e in design.frontier if e.best is best)

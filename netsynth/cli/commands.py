@@ -106,12 +106,9 @@ def make(target, bin_file, series, value_range, qty, kit_tolerance, kit_power, m
 
     stock = load_stock(bin_file, series, value_range, qty, kit_tolerance, kit_power)
     point, derating = conditions(volts, amps, watts, duty, ambient, derate, volt_derate, mains)
-    from netsynth.search.frontier import using_engine
-
-    with using_engine(engine):  # api.make takes no engine; the frontier reads it from here
-        design = make_design(target, stock, max_parts=max_parts, within=within, alternatives=alternatives,
-                             on_progress=None if as_json else progress, point=point, derating=derating,
-                             prefer=prefer, spec=spec, temp_c=temp)
+    design = make_design(target, stock, max_parts=max_parts, within=within, alternatives=alternatives,
+                         on_progress=None if as_json else progress, point=point, derating=derating,
+                         prefer=prefer, spec=spec, temp_c=temp, engine=engine)
     if svg_file is not None:
         from netsynth.render.svg import design_svg, save_svg
 

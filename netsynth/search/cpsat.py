@@ -83,7 +83,7 @@ from typing import Literal
 import numpy as np
 
 from netsynth.analysis.conditions import Derating, OperatingPoint, limit_volts, limit_watts
-from netsynth.errors import ArgumentError
+from netsynth.errors import ArgumentError, InfeasibleError
 from netsynth.network import Network, Part, parallel, resistance, series
 from netsynth.search.exact import Found
 from netsynth.search.solver import SolverSettings, Status, cp_model, solve
@@ -110,6 +110,16 @@ FINEST = 2.0 ** -36
 FINE = 2.0 ** -40
 #: options the model takes without pruning; more, and the caller decides (see family_search)
 OPTION_CAP = 4000
+#: rows of two-line options built per numpy step (bounds memory: about 100 MB per step)
+CHUNK_ROWS = 2_000_000
+#: two-line options (pairs of lines × splits of a bank) above which the families are not built at all
+MAX_PAIR_ROWS = 150_000_000
+#: options inside the value window above which the families are refused (each option costs a few
+#: hundred bytes through the model's arrays; the model stalls far earlier, above OPTION_CAP)
+MAX_OPTIONS_BUILT = 1_000_000
+#: ``auto`` skips CP-SAT on bins with more stock lines than this (the pattern model stalls far below the
+#: option counts such bins give; measured: E192 1 Ω..10 MΩ took 38 s and 11 GB before this guard)
+AUTO_MAX_LINES = 200
 #: a first solve over well-used options keeps those whose parts use at least this share of p_max
 #: on average (a heuristic for an incumbent only; the proof comes from the exact prune after it)
 WELL_USED = 0.7
@@ -370,6 +380,10 @@ def _max_banks(target, within, lines, point, family, max_parts) -> int:
     return min(max_parts, max(MAX_BANKS, 2 * need))
 
 
+_PAIRS = tuple(np.array(col, dtype=np.int64) for col in zip(
+    *[(x, y) for x in range(1, BANK_PARTS) for y in range(1, BANK_PARTS - x + 1)]))
+
+
 def _options(family, lines: _Lines, top: float, unit: float, point, lo_r, hi_r) -> _Options:
     """Every bank (string) of one or two lines that fits the stock, the window top and the limits."""
     n = len(lines.ohms)
@@ -379,20 +393,41 @@ def _options(family, lines: _Lines, top: float, unit: float, point, lo_r, hi_r) 
     k1 = np.tile(ks, n)
     ok = k1 <= lines.cap[a1]
     a1, k1 = a1[ok], k1[ok]
-    # two lines, a < b
-    ia, ib = np.triu_indices(n, 1)
-    pairs = [(x, y) for x in range(1, BANK_PARTS) for y in range(1, BANK_PARTS - x + 1)]
-    px = np.array([p[0] for p in pairs], dtype=np.int64)
-    py = np.array([p[1] for p in pairs], dtype=np.int64)
-    a2 = np.repeat(ia, len(pairs))
-    b2 = np.repeat(ib, len(pairs))
-    ka2 = np.tile(px, len(ia))
-    kb2 = np.tile(py, len(ia))
-    ok = (ka2 <= lines.cap[a2]) & (kb2 <= lines.cap[b2])
-    a = np.concatenate([a1, a2[ok]])
-    b = np.concatenate([np.full(len(a1), -1), b2[ok]])
-    ka = np.concatenate([k1, ka2[ok]])
-    kb = np.concatenate([np.zeros(len(a1), dtype=np.int64), kb2[ok]])
+    # two lines, a < b: generated a few lines of a at a time and cut to the value window at once, so
+    # memory stays bounded on large bins (all pairs of 1345 E192 lines would be 60 M rows)
+    if n * (n - 1) // 2 * len(_PAIRS[0]) > MAX_PAIR_ROWS:
+        raise InfeasibleError(
+            f"the CP-SAT families over {n} stock lines are too large to build (about "
+            f"{n * (n - 1) // 2 * len(_PAIRS[0]):.1e} two-line options); use a smaller bin or another engine"
+        )
+    px, py = _PAIRS
+    chunks = [(a1, np.full(len(a1), -1), k1, np.zeros(len(a1), dtype=np.int64))]
+    step = max(1, CHUNK_ROWS // max(1, n * len(px)))
+    for first in range(0, n - 1, step):
+        a_rows = np.arange(first, min(n - 1, first + step))
+        ia = np.concatenate([np.full(n - 1 - i, i) for i in a_rows])
+        ib = np.concatenate([np.arange(i + 1, n) for i in a_rows])
+        a2 = np.repeat(ia, len(px))
+        b2 = np.repeat(ib, len(px))
+        ka2 = np.tile(px, len(ia))
+        kb2 = np.tile(py, len(ia))
+        ok = (ka2 <= lines.cap[a2]) & (kb2 <= lines.cap[b2])
+        if family == "banks":
+            v2 = 1.0 / (ka2 / lines.ohms[a2] + kb2 / lines.ohms[b2])
+        else:
+            v2 = 1.0 / (ka2 * lines.ohms[a2] + kb2 * lines.ohms[b2])
+        ok &= (v2 <= top) & (v2 >= unit)
+        chunks.append((a2[ok], b2[ok], ka2[ok], kb2[ok]))
+        built = sum(len(c[0]) for c in chunks)
+        if built > MAX_OPTIONS_BUILT:
+            raise InfeasibleError(
+                f"the CP-SAT families over {n} stock lines give more than {MAX_OPTIONS_BUILT:,} options inside "
+                "the value window, far beyond what the model proves; use a smaller bin or another engine"
+            )
+    a = np.concatenate([c[0] for c in chunks])
+    b = np.concatenate([c[1] for c in chunks])
+    ka = np.concatenate([c[2] for c in chunks])
+    kb = np.concatenate([c[3] for c in chunks])
     two = b >= 0
     ra = lines.ohms[a]
     rb = np.where(two, lines.ohms[np.maximum(b, 0)], 1.0)

@@ -23,9 +23,7 @@ Scoring and the stopping rule for a required accuracy live in :func:`pick`.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable, Iterator
-from contextlib import contextmanager
-from contextvars import ContextVar
+from collections.abc import Callable
 from dataclasses import dataclass, replace
 from typing import Literal, get_args
 
@@ -62,27 +60,8 @@ DEFAULT_ACCEPT = 0.01
 #: how the part counts above the exhaustive range are searched (see :func:`search_frontier`)
 Engine = Literal["auto", "exhaustive", "cpsat", "arrays"]
 ENGINES: tuple[str, ...] = get_args(Engine)
-#: the engine of a request that names none (``api.make`` names none; see :func:`using_engine`)
-_ENGINE: ContextVar[str] = ContextVar("netsynth_engine", default="auto")
 #: seconds CP-SAT may spend on one request's family searches (both families together)
 CPSAT_SECONDS = 10.0
-
-
-@contextmanager
-def using_engine(engine: Engine) -> Iterator[None]:
-    """Search with ``engine`` inside the block, where the caller cannot pass it (``api.make``).
-
-    >>> with using_engine("arrays"):
-    ...     _ENGINE.get()
-    'arrays'
-    """
-    if engine not in ENGINES:
-        raise ArgumentError(f"engine={engine!r}: choose one of {', '.join(ENGINES)}")
-    token = _ENGINE.set(engine)
-    try:
-        yield
-    finally:
-        _ENGINE.reset(token)
 
 
 @dataclass(frozen=True, slots=True)
@@ -198,7 +177,7 @@ def search_frontier(
     on_progress: Callable[[str], None] | None = None,
     point: OperatingPoint | None = None,
     derating: Derating = Derating(),
-    engine: Engine | None = None,
+    engine: Engine = "auto",
 ) -> Frontier:
     """Best acceptable network for each part count.
 
@@ -210,7 +189,7 @@ def search_frontier(
     count whose best network lands within it; if none does, every row is kept and
     ``within_met`` is False.
 
-    ``engine`` (None: the one set by :func:`using_engine`, else ``auto``) says how counts above the
+    ``engine`` says how counts above the
     exhaustive range are searched: ``arrays`` the regular arrays; ``cpsat`` CP-SAT over its two
     families (the arrays only seed it, and its model is solved however large); ``auto`` both, CP-SAT
     only where its pruned model stays small (:data:`netsynth.search.cpsat.OPTION_CAP`) and OR-Tools
@@ -250,7 +229,7 @@ def search_frontier(
             + ", or relax the derating"
         )
     cap = EXACT_PARTS_WITH_STRESS if point is not None else EXACT_PARTS_MAX
-    chosen = _ENGINE.get() if engine is None else engine
+    chosen = engine
     if chosen not in ENGINES:
         raise ArgumentError(f"engine={chosen!r}: choose one of {', '.join(ENGINES)}")
     exact, exact_k = _exact_engine(stock, min(limit, cap))
@@ -398,6 +377,10 @@ def _family_rows(target, stock, point, derating, limit, within, known, force,
 
     accept = within if within is not None else DEFAULT_ACCEPT
     if not accept > 0 or (not force and not solver.available()):
+        return [], False
+    if not force and len(stock) > cpsat.AUTO_MAX_LINES:
+        if on_progress:
+            on_progress(f"CP-SAT skipped: {len(stock)} stock lines (auto uses it up to {cpsat.AUTO_MAX_LINES})")
         return [], False
     inside = [r.parts for r in known if abs(r.best.error) <= accept]
     incumbent = min(inside) if inside else None
