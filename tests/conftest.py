@@ -14,6 +14,10 @@ settings.register_profile("dev", deadline=None)
 settings.register_profile("fuzz", max_examples=2000, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 settings.load_profile(os.environ.get("HYPOTHESIS_PROFILE", "dev"))
 
+# The search keeps tables in a disk cache; the suite never writes to the user's cache folder
+# (tests/test_cache.py points it at temporary folders itself).
+os.environ["NETSYNTH_CACHE"] = "off"
+
 
 @pytest.fixture
 def runner() -> CliRunner:

@@ -471,7 +471,7 @@ def _row(engine: ExactSearch, goal: DividerGoal, stock: StockBin, k: int, hit: _
     used = engine.tables[hit.n_small].parts[[hit.small_index]] if engine.limited else None
     small = engine.network_at(hit.n_small, hit.small_index)
     # the engine's witness for the floor (side -1) or ceil (+1) at the same query the search made
-    big = engine._witness(hit.n_big, np.array([hit.query]), used, hit.side)
+    big = engine.witness(hit.n_big, np.array([hit.query]), used, hit.side)
     top, bottom = (small, big) if hit.small_is_top else (big, small)
     top, bottom = tie_arms(top, bottom, stock, goal)
     rt, rb = resistance(top), resistance(bottom)

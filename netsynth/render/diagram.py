@@ -119,8 +119,8 @@ def power_label(watts: float, ascii: bool = False) -> str:
 
     Examples
     --------
-    >>> [power_label(w) for w in (0.125, 1.5, 12.25, 0.0033, 2500.0, 0.0)]
-    ['0.12W', '1.5W', '12.2W', '3.3mW', '2.5kW', '0W']
+    >>> [power_label(w) for w in (0.125, 1.5, 12.25, 0.0033, 2500.0, 0.0, 4e-7, 1e-24)]
+    ['0.12W', '1.5W', '12.2W', '3.3mW', '2.5kW', '0W', '0.4µW', '<10nW']
     """
     w = abs(float(watts))
     if w == 0:
@@ -133,7 +133,9 @@ def power_label(watts: float, ascii: bool = False) -> str:
         return f"{w:.2g}W"
     if w >= 1e-5:
         return f"{w * 1e3:.2g}mW"
-    return f"{w * 1e6:.2g}{'u' if ascii else 'µ'}W"
+    if w >= 1e-8:
+        return f"{w * 1e6:.2g}{'u' if ascii else 'µ'}W"
+    return "<10nW"  # below what any part's dissipation means on a drawing
 
 
 def plan(net: Network, watts: Sequence[float] | None = None, ascii: bool = False) -> PlanNode:

@@ -269,7 +269,7 @@ class ExactSearch:
         """
         return self._engine.bounds_any(n, self._rows(t, used))
 
-    def _witness(self, n: int, t: np.ndarray, used: np.ndarray | None, side: int) -> Network:
+    def witness(self, n: int, t: np.ndarray, used: np.ndarray | None, side: int) -> Network:
         """A network of n parts whose value is :meth:`bounds`' floor (side -1) or ceil (+1) at ``t[0]``."""
         return self._engine.witness_any(n, self._rows(t, used), side)
 
