@@ -28,7 +28,7 @@ PACKAGE = Path(__file__).resolve().parent.parent / "netsynth"
 #: placed by its first name: ``stock.items`` is in the layer of ``stock``.
 LAYERS = [
     {"errors", "limits"},
-    {"values", "eseries", "nodal"},
+    {"values", "eseries", "nodal", "atomic"},
     {"stock", "network", "notation", "inputs", "markings", "netlist"},
     {"analysis"},
     {"search"},

@@ -43,7 +43,7 @@ def spice_option(fn):
 def _save(path: str, text: str) -> None:
     """Write one of the command's output files atomically (temp file, fsync, rename)."""
     from netsynth.errors import ArgumentError
-    from netsynth.stock.edit import write_atomic
+    from netsynth.atomic import write_atomic
 
     write_atomic(path, text.encode("utf-8"), error=ArgumentError)
 

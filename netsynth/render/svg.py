@@ -37,13 +37,12 @@ from __future__ import annotations
 
 import datetime
 import os
-import secrets
-import stat
 import xml.etree.ElementTree as ET
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 from netsynth.analysis.review import Review
+from netsynth.atomic import write_atomic
 from netsynth.design import Candidate, Design
 from netsynth.errors import ArgumentError
 from netsynth.network import Network
@@ -350,39 +349,7 @@ def save_svg(svg: str, path: str | os.PathLike) -> None:
         If the file cannot be written (the message names `path` and the reason; the old
         file, if any, is unchanged).
     """
-    name = os.fsdecode(os.fspath(path))
-    folder, base = os.path.split(os.path.abspath(name))
-    data = svg.encode("utf-8")
-    tmp = None
-    try:
-        try:
-            mode = stat.S_IMODE(os.stat(name).st_mode)
-        except FileNotFoundError:
-            mode = None
-        while tmp is None:
-            candidate = os.path.join(folder, f".{base}.{secrets.token_hex(4)}.tmp")
-            try:
-                fd = os.open(candidate, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o666)
-            except FileExistsError:
-                continue
-            tmp = candidate
-        with os.fdopen(fd, "wb") as f:
-            f.write(data)
-            f.flush()
-            os.fsync(f.fileno())
-        if mode is not None:
-            os.chmod(tmp, mode)
-        os.replace(tmp, name)
-        tmp = None
-    except OSError as e:
-        raise ArgumentError(f"path={name!r}: cannot write the SVG: {e.strerror or e}; check that the folder "
-                            "exists and is writable") from None
-    finally:
-        if tmp is not None:
-            try:
-                os.unlink(tmp)
-            except OSError:
-                pass  # best effort: the original error is the one to report
+    write_atomic(path, svg.encode("utf-8"), error=ArgumentError, what="the SVG")
 
 
 def _watts(r: Review) -> list[float] | None:

@@ -79,12 +79,11 @@ import csv
 import io
 import os
 import re
-import secrets
-import stat
 from collections.abc import Callable, Iterable
 from decimal import Decimal
 
 from netsynth import limits, values
+from netsynth.atomic import write_atomic
 from netsynth.errors import StockError, ValueParseError
 from netsynth.stock.items import (
     COLUMNS,
@@ -496,51 +495,4 @@ def save_bin(stock: StockBin, path: str | os.PathLike) -> None:
         writer.writerow(_row(item, columns, list(extra_names)))
     data = buffer.getvalue().encode("utf-8")
 
-    folder, base = os.path.split(os.path.abspath(name))
-    try:
-        mode = stat.S_IMODE(os.stat(name).st_mode)
-    except FileNotFoundError:
-        mode = None
-    except OSError as e:
-        raise StockError(f"cannot write {name!r}: {e.strerror or e}") from None
-    tmp = None
-    try:
-        while tmp is None:
-            candidate = os.path.join(folder, f".{base}.{secrets.token_hex(4)}.tmp")
-            try:
-                fd = os.open(candidate, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o666)
-            except FileExistsError:
-                continue
-            tmp = candidate
-        with os.fdopen(fd, "wb") as f:
-            f.write(data)
-            f.flush()
-            os.fsync(f.fileno())
-        if mode is not None:
-            os.chmod(tmp, mode)
-        os.replace(tmp, name)
-        tmp = None
-    except OSError as e:
-        raise StockError(f"cannot write {name!r}: {e.strerror or e}; check that the folder "
-                         "exists and is writable (the old file, if any, is unchanged)") from None
-    finally:
-        if tmp is not None:
-            try:
-                os.unlink(tmp)
-            except OSError:
-                pass  # best effort: the original error is the one to report
-    _sync_folder(folder)
-
-
-def _sync_folder(folder: str) -> None:
-    """fsync the folder so the rename itself survives a power cut (POSIX; skipped elsewhere)."""
-    try:
-        fd = os.open(folder, os.O_RDONLY)
-    except OSError:
-        return
-    try:
-        os.fsync(fd)
-    except OSError:
-        pass  # some file systems refuse fsync on a folder; the data itself is already synced
-    finally:
-        os.close(fd)
+    write_atomic(name, data, error=StockError)

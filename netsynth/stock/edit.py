@@ -22,7 +22,6 @@ Map of the module
 :func:`apply_edit`              write the planned text: backup, temp file, fsync, rename
 :func:`backup_path`             where the previous version goes: ``FILE.bak``
 :func:`same_part`               two lines or rows of the same value and ratings
-:func:`write_atomic`            write any file atomically (also the CLI's output files)
 
 Which rows a stock line is
     A stock line of a loaded bin may merge several rows (same value and ratings; see
@@ -53,14 +52,14 @@ import io
 import math
 import os
 import re
-import secrets
 import stat
 from collections.abc import Mapping
 from dataclasses import dataclass
 
 from netsynth import values
-from netsynth.errors import NetsynthError, StockError
-from netsynth.stock.binfile import _exact_text, _read_row, _sync_folder, _value_text, load_bin
+from netsynth.atomic import write_atomic
+from netsynth.errors import StockError
+from netsynth.stock.binfile import _exact_text, _read_row, _value_text, load_bin
 from netsynth.stock.items import (
     COLUMNS,
     DEFAULT_MAX_TEMP_C,
@@ -74,8 +73,7 @@ from netsynth.stock.items import (
     _value_key,
 )
 
-__all__ = ["BACKUP_SUFFIX", "BinEdit", "Change", "apply_edit", "backup_path", "file_rows", "plan_add", "plan_take", "same_part",
-           "write_atomic"]
+__all__ = ["BACKUP_SUFFIX", "BinEdit", "Change", "apply_edit", "backup_path", "file_rows", "plan_add", "plan_take", "same_part"]
 
 #: appended to the file's name for the previous version (``drawer.csv`` -> ``drawer.csv.bak``)
 BACKUP_SUFFIX = ".bak"
@@ -426,57 +424,6 @@ def plan_add(path: str | os.PathLike, item: StockItem) -> BinEdit:
 # --------------------------------------------------------------------------- writing
 
 
-def write_atomic(path: str | os.PathLike, data: bytes, mode: int | None = None,
-                 error: type[NetsynthError] = StockError) -> None:
-    """Write `data` to `path` so that a crash leaves the old file or the new one, never a mix.
-
-    A temp file in the same folder gets the data, is flushed with fsync, gets `mode` (permission
-    bits; by default those of an existing `path`, else the process's default), and is renamed over
-    `path` with ``os.replace``; then the folder is fsynced. Also what the command line uses for the
-    files it writes (SPICE subcircuit, pick-list CSV).
-
-    Raises
-    ------
-    NetsynthError
-        Of type `error` (StockError by default), one line, when the file cannot be written; an
-        existing file is then unchanged.
-    """
-    path = os.fsdecode(os.fspath(path))
-    if mode is None:
-        try:
-            mode = stat.S_IMODE(os.stat(path).st_mode)
-        except OSError:
-            mode = None
-    folder, base = os.path.split(os.path.abspath(path))
-    tmp = None
-    try:
-        while tmp is None:
-            candidate = os.path.join(folder, f".{base}.{secrets.token_hex(4)}.tmp")
-            try:
-                fd = os.open(candidate, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o666)
-            except FileExistsError:
-                continue
-            tmp = candidate
-        with os.fdopen(fd, "wb") as f:
-            f.write(data)
-            f.flush()
-            os.fsync(f.fileno())
-        if mode is not None:
-            os.chmod(tmp, mode)
-        os.replace(tmp, path)
-        tmp = None
-    except OSError as e:
-        raise error(f"cannot write {path!r}: {e.strerror or e}; check that the folder exists and is writable "
-                    "(an existing file is unchanged)") from None
-    finally:
-        if tmp is not None:
-            try:
-                os.unlink(tmp)
-            except OSError:
-                pass  # best effort: the error above is the one to report
-    _sync_folder(folder)
-
-
 def apply_edit(edit: BinEdit, backup: bool = True) -> str | None:
     """Write a planned edit (see the module docstring for the steps); return the backup's path.
 
@@ -502,7 +449,7 @@ def apply_edit(edit: BinEdit, backup: bool = True) -> str | None:
     saved = None
     if backup:
         saved = backup_path(name)
-        write_atomic(saved, current, mode)
-    write_atomic(name, edit.new_text.encode("utf-8"), mode)
+        write_atomic(saved, current, mode, error=StockError)
+    write_atomic(name, edit.new_text.encode("utf-8"), mode, error=StockError)
     return saved
 

@@ -1,0 +1,88 @@
+"""Writing a file the user owns so that a crash leaves the old version or the new one, never a mix.
+
+:func:`write_atomic` is the one way netsynth writes files: bin files (``save_bin``, ``bin take``,
+``bin add``), and the SVG, SPICE and CSV files the command line writes.
+
+Steps: a temp file in the same folder (a rename across file systems would not be atomic) gets
+the data and is flushed with ``fsync``; it gets the permission bits of the file it replaces; it
+is renamed over the target with ``os.replace`` (atomic on POSIX and Windows); then the folder is
+fsynced so the rename itself survives a power cut.
+"""
+
+from __future__ import annotations
+
+import os
+import secrets
+import stat
+
+from netsynth.errors import NetsynthError
+
+
+def write_atomic(path: str | os.PathLike, data: bytes, mode: int | None = None, *,
+                 error: type[NetsynthError], what: str = "") -> None:
+    """Write `data` to `path` atomically (see the module docstring).
+
+    Parameters
+    ----------
+    path : the file to write
+    data : its new content
+    mode : permission bits; by default those of an existing `path`, else the process's default
+    error : the error class raised on failure (``StockError`` for bin files, ``ArgumentError`` for
+        an output path the user gave)
+    what : what is written, for the message (``"the SVG"``); empty for a plain "cannot write"
+
+    Raises
+    ------
+    NetsynthError
+        Of type `error`, one line naming `path` and the reason, when the file cannot be written;
+        an existing file is then unchanged.
+    """
+    name = os.fsdecode(os.fspath(path))
+    folder, base = os.path.split(os.path.abspath(name))
+    tmp = None
+    label = f"cannot write {what}" if what else "cannot write"
+    try:
+        if mode is None:
+            try:
+                mode = stat.S_IMODE(os.stat(name).st_mode)
+            except FileNotFoundError:
+                mode = None
+        while tmp is None:
+            candidate = os.path.join(folder, f".{base}.{secrets.token_hex(4)}.tmp")
+            try:
+                fd = os.open(candidate, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o666)
+            except FileExistsError:
+                continue
+            tmp = candidate
+        with os.fdopen(fd, "wb") as f:
+            f.write(data)
+            f.flush()
+            os.fsync(f.fileno())
+        if mode is not None:
+            os.chmod(tmp, mode)
+        os.replace(tmp, name)
+        tmp = None
+    except OSError as e:
+        raise error(f"{label} {name!r}: {e.strerror or e}; check that the folder exists and is writable "
+                    "(the old file, if any, is unchanged)") from None
+    finally:
+        if tmp is not None:
+            try:
+                os.unlink(tmp)
+            except OSError:
+                pass  # best effort: the error above is the one to report
+    sync_folder(folder)
+
+
+def sync_folder(folder: str) -> None:
+    """fsync the folder so a rename in it survives a power cut (POSIX; skipped where refused)."""
+    try:
+        fd = os.open(folder, os.O_RDONLY)
+    except OSError:
+        return
+    try:
+        os.fsync(fd)
+    except OSError:
+        pass  # some file systems refuse fsync on a folder; the data itself is already synced
+    finally:
+        os.close(fd)
