@@ -273,6 +273,8 @@ def search_frontier(
         searched = {"arrays": "the array search uses at most two values, so stock counts can limit it",
                     "exhaustive": f"the exhaustive search stops at {exact_k} parts"}.get(
             chosen, "neither the arrays nor CP-SAT found one")
+        if reach.parts is None or reach.parts > limit:  # the value itself needs more parts than allowed
+            searched = reach.explain() + (f", more than the {limit} allowed" if reach.parts is not None else "")
         raise InfeasibleError(
             f"no network of up to {limit} parts keeps every part within its derated limits ({bound.explain()}; "
             f"{searched}); allow more parts, use higher-rated parts, or relax the derating"
