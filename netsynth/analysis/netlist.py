@@ -43,7 +43,7 @@ import numpy as np
 
 from netsynth.analysis.conditions import Derating, OperatingPoint
 from netsynth.analysis.lines import tie_parts
-from netsynth.analysis.review import MC_SAMPLES, Review, _cautions, _low_ohm_note, _notes
+from netsynth.analysis.review import MC_SAMPLES, Review, assemble
 from netsynth.analysis.stress import NetworkStress, PartLoad, default_line, part_stress
 from netsynth.analysis.thermal import REFERENCE_C
 from netsynth.errors import ArgumentError
@@ -215,20 +215,8 @@ def review_netlist(
     if temp_c is not None:
         drift = tcr * abs(temp_c - REFERENCE_C) * 1e-6
         at_temp = (max(0.0, value * (1 - drift)), value * (1 + drift))
-    review = Review(
-        network=topo.network,
-        value_ohms=value,
-        band=band,
-        monte_carlo=mc,
-        tcr_ppm=tcr,
-        temp_c=temp_c,
-        at_temp_ohms=at_temp,
-        stress=stress,
-        point=point,
-        cautions=_cautions(stress, point),
-        notes=(_notes(value, target_ohms, band) if target_ohms is not None else ()) + _low_ohm_note(value),
-        not_in_bin=tuple(sorted({e.ohms for e, (_, held) in zip(elements, lines) if not held})),
-    )
+    missing = tuple(sorted({e.ohms for e, (_, held) in zip(elements, lines) if not held}))
+    review = assemble(topo.network, value, band, mc, tcr, temp_c, at_temp, stress, point, target_ohms, missing)
     per = tuple(ElementReview(i, line, held, s, c, c < NO_CURRENT)
                 for i, (line, held), s, c in zip(topo.live, lines, shares, current))
     return NetlistReview(topo, value, per, review)

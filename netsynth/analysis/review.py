@@ -77,6 +77,17 @@ def review(
     if stress is None and point is not None:
         stress = network_stress(net, point, derating)
     missing = tuple(sorted({p.ohms for p, (_, held) in zip(parts, items) if not held}))
+    return assemble(net, value, band, mc, tcr, temp_c, at_temp, stress, point, target_ohms, missing)
+
+
+def assemble(net: Network | None, value: float, band: ToleranceBand, mc: MonteCarlo, tcr: float,
+             temp_c: float | None, at_temp: tuple[float, float] | None, stress: NetworkStress | None,
+             point: OperatingPoint | None, target_ohms: float | None, missing: tuple[float, ...]) -> Review:
+    """The review record from its figures, with the cautions and notes they call for.
+
+    Shared by :func:`review` (series/parallel trees) and the netlist review (any two-terminal
+    network, figures from nodal solves), so both say the same things the same way.
+    """
     return Review(
         network=net,
         value_ohms=value,
