@@ -249,17 +249,15 @@ def test_scarce_quarter_watt_drawer_is_proven_within_the_family():
 # ------------------------------------------------------------------ the frontier and the command
 
 
-def test_make_rows_say_what_they_are(runner):
+def test_make_rows_say_what_they_are(runner, tmp_path):
     counts = [(7 * i + 3) % 16 for i in range(72)]
     kit = kit_bin("E24", 1.0, 910.0)
     rows = "value,qty\n" + "\n".join(f"{item.ohms!r},{c}" for item, c in zip(kit.items, counts) if c) + "\n"
-    with runner.isolated_filesystem():
-        with open("drawer.csv", "w", encoding="utf-8") as f:
-            f.write(rows)
-        text = runner.invoke(cli, ["make", "10", "--watts", "5", "--bin", "drawer.csv", "--alternatives", "0"])
-        arrays = runner.invoke(cli, ["make", "10", "--watts", "5", "--bin", "drawer.csv", "--engine", "arrays",
-                                     "--json"])
-        data = runner.invoke(cli, ["make", "10", "--watts", "5", "--bin", "drawer.csv", "--json"])
+    drawer = tmp_path / "drawer.csv"
+    drawer.write_text(rows, encoding="utf-8")
+    text = runner.invoke(cli, ["make", "10", "--watts", "5", "--bin", str(drawer), "--alternatives", "0"])
+    arrays = runner.invoke(cli, ["make", "10", "--watts", "5", "--bin", str(drawer), "--engine", "arrays", "--json"])
+    data = runner.invoke(cli, ["make", "10", "--watts", "5", "--bin", str(drawer), "--json"])
     assert text.exit_code == 0, text.output
     assert "CP-SAT families" in text.output and "in family" in text.output
     assert arrays.exit_code == 1 and json.loads(arrays.output)["error"]["kind"] == "infeasible"
