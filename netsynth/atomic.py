@@ -1,4 +1,5 @@
-"""Writing a file the user owns so that a crash leaves the old version or the new one, never a mix.
+"""Files the user owns: written so that a crash leaves the old version or the new one, never a mix;
+read with a size cap, so an endless device or a pipe is refused instead of read forever.
 
 :func:`write_atomic` is the one way netsynth writes files: bin files (``save_bin``, ``bin take``,
 ``bin add``), and the SVG, SPICE and CSV files the command line writes.
@@ -86,3 +87,38 @@ def sync_folder(folder: str) -> None:
         pass  # some file systems refuse fsync on a folder; the data itself is already synced
     finally:
         os.close(fd)
+
+
+def read_capped(path: str, cap: int, *, error: type[NetsynthError], what: str = "file") -> bytes:
+    """At most `cap` bytes of `path`; a longer file (or an endless device such as ``/dev/zero``) is refused.
+
+    At most cap + 1 bytes are read. The file is opened without blocking, so a FIFO nobody writes
+    to reads as empty instead of hanging, and is then read blocking as usual.
+
+    Raises
+    ------
+    NetsynthError
+        Of type `error`, one line: missing file, a folder, no permission, a NUL in the name, or
+        larger than `cap`.
+    """
+    shown = path if len(path) <= 60 else path[:57] + "..."
+    try:
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_BINARY", 0))
+        with os.fdopen(fd, "rb") as f:
+            if hasattr(os, "set_blocking"):
+                os.set_blocking(fd, True)
+            data = f.read(cap + 1)
+    except ValueError:  # a NUL character: no file can have that name
+        raise error(f"cannot open {what} '{shown}': a file name cannot contain a NUL character") from None
+    except FileNotFoundError:
+        raise error(f"cannot open {what} '{shown}': no such file; check the path") from None
+    except IsADirectoryError:
+        raise error(f"cannot open {what} '{shown}': it is a folder; give the path of a file") from None
+    except PermissionError:
+        raise error(f"cannot open {what} '{shown}': permission denied; check the file's permissions") from None
+    except OSError as e:
+        raise error(f"cannot open {what} '{shown}': {e.strerror or 'cannot be read'}") from None
+    if len(data) > cap:
+        raise error(f"{shown}: the {what} is larger than {cap // 1024 // 1024} MiB, more than it can "
+                    "sensibly hold; check that it is the right file")
+    return data

@@ -89,6 +89,16 @@ def test_missing_needs_file_is_one_line(tmp_path):
 # ------------------------------------------------------------------ allocation
 
 
+def test_an_endless_needs_file_is_refused_not_read_forever(tmp_path):
+    # an endless device: read up to the cap plus one byte, then refused in one line
+    with pytest.raises(ArgumentError, match="larger than 8 MiB"):
+        load_needs("/dev/zero")
+    huge = tmp_path / "huge.csv"
+    huge.write_bytes(b"ref,target\n" + b"R1,1k\n" * (8 * 1024 * 1024 // 6 + 1))
+    with pytest.raises(ArgumentError, match="larger than"):
+        load_needs(huge)
+
+
 def test_careful_allocation_serves_what_greedy_cannot():
     # Drawer: 1k ×1, 1k5 ×2, 5k6 ×2, 8k2 ×1; needs within ±0.1 %: A 1k, B 11k2, C 2k8.
     # By hand: B is 5k6 + 5k6 = 11 200 or 1k5 + 1k5 + 8k2 = 11 200; C is 5k6 || 5k6 = 5600/2 = 2 800;

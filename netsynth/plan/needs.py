@@ -31,7 +31,9 @@ import os
 from collections.abc import Iterable
 from dataclasses import dataclass
 
+from netsynth import limits
 from netsynth.analysis.conditions import DEFAULT_AMBIENT_C, OperatingPoint
+from netsynth.atomic import read_capped
 from netsynth.errors import ArgumentError, ValueParseError
 from netsynth.values import parse_current, parse_power, parse_ratio, parse_resistance, parse_voltage
 
@@ -168,15 +170,7 @@ def _need(row: dict[str, str], where: str, line: int, ambient_c: float) -> Need:
 
 
 def _read_text(path: str) -> str:
-    try:
-        with open(path, "rb") as f:
-            data = f.read()
-    except FileNotFoundError:
-        raise ArgumentError(f"cannot open {path!r}: no such file; check the path of the needs file") from None
-    except IsADirectoryError:
-        raise ArgumentError(f"cannot open {path!r}: it is a folder; give the path of a needs file (.csv)") from None
-    except OSError as e:
-        raise ArgumentError(f"cannot open {path!r}: {e.strerror or e}") from None
+    data = read_capped(path, limits.MAX_BIN_BYTES, error=ArgumentError, what="needs file")
     try:
         return data.decode("utf-8-sig")
     except UnicodeDecodeError as e:
