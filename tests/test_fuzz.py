@@ -161,6 +161,53 @@ def test_random_command_lines(argv, command):
     _assert_clean(_invoke(args), "--json" in args[: args.index("--")] if "--" in args else "--json" in args)
 
 
+# ------------------------------------------------------------------ the job commands
+
+JOB_FORMS = [
+    # (command and its required arguments, with None where a random value goes)
+    ["divider", "--ratio", None],
+    ["divider", "--vin", None, "--vout", None],
+    ["divider", "--vref", None, "--vout", None, "--total", None],
+    ["rc", "--tau", None, "--cap", None],
+    ["rc", "--corner", None, "--cap", None, "--cap-tol", None],
+    ["shunt", None, "--movement", None, "--movement-ohms", None],
+    ["multiplier", None, "--movement", None, "--movement-ohms", None],
+    ["sensor", "pt100", None],
+    ["sensor", "ntc", None, "--r25", None, "--beta", None],
+    ["trim", None, None],
+    ["bin", "show", None],
+    ["plan", None],
+]
+
+
+@FUZZ
+@given(st.sampled_from(JOB_FORMS),
+       st.lists(st.sampled_from(ORDINARY) | st.sampled_from(EXTREME) | option_values, min_size=6, max_size=6),
+       st.booleans())
+def test_job_commands_with_random_values(form, fill, as_json):
+    # every command the job issues added keeps the same rules; -k 2 keeps each search small
+    fill = iter(fill)
+    args = [next(fill) if part is None else part for part in form]
+    if args[0] not in ("bin", "plan"):
+        args += ["-k", "2"]
+    _assert_clean(_invoke(args + (["--json"] if as_json else [])), as_json)
+
+
+JOB_CASES_FOUND = [
+    # inputs a longer fuzz run found escaping as tracebacks or warnings (kept as fixed cases)
+    ["divider", "--ratio", "1e-320", "-k", "2"],  # overflow in the arms' arithmetic
+    ["sensor", "ntc", "0.0", "--r25", "1M", "--beta", "1e300", "-k", "2"],  # exp() overflow
+    ["rc", "--tau", "1e308", "--cap", "1e308", "-k", "2", "--json"],  # infinite R into the JSON
+    ["rc", "--corner", "1e-12", "--cap", "4.9e-324", "--cap-tol", "1%", "-k", "2"],  # division by zero
+    ["plan", "/dev/zero"],  # an endless needs file
+]
+
+
+@pytest.mark.parametrize("args", JOB_CASES_FOUND, ids=[" ".join(a[:3]) for a in JOB_CASES_FOUND])
+def test_job_commands_found_by_fuzzing(args):
+    _assert_clean(_invoke(args), "--json" in args)
+
+
 # ------------------------------------------------------------------ expressions
 
 TOKENS = ["1k", "4k7", "0R47", "10", "1e-320", "1e300", "+", "||", "∥", "(", ")", " ", "3s(", "2p(", "10001s(",

@@ -162,6 +162,19 @@ class DividerGoal:
         return None if volts is None else volts[1] / rb
 
 
+#: the narrowest divider ratio accepted, and 1 minus it the widest: a part-per-trillion divider is
+#: beyond any resistor network (the accepted values span 1 µΩ..1 TΩ, netsynth.limits) and would only
+#: overflow the arithmetic of the arms
+MIN_RATIO = 1e-12
+
+
+def _checked_ratio(ratio: float, what: str) -> float:
+    if not MIN_RATIO <= ratio <= 1.0 - MIN_RATIO:
+        raise ArgumentError(f"{what} gives a divider ratio of {ratio:.3g}; netsynth builds ratios from {MIN_RATIO:g} "
+                            f"to 1 − {MIN_RATIO:g}")
+    return ratio
+
+
 def ratio_goal(ratio: float) -> DividerGoal:
     """A bare ratio ``Rb/(Rt + Rb)``, strictly between 0 and 1.
 
@@ -171,7 +184,7 @@ def ratio_goal(ratio: float) -> DividerGoal:
     r = _positive("ratio", ratio)
     if not r < 1:
         raise ArgumentError(f"ratio={ratio!r}: a divider's ratio Rbottom/(Rtop + Rbottom) lies between 0 and 1")
-    return DividerGoal("ratio", r)
+    return DividerGoal("ratio", _checked_ratio(r, f"ratio={ratio!r}"))
 
 
 def voltage_goal(vin: float, vout: float) -> DividerGoal:
@@ -179,7 +192,7 @@ def voltage_goal(vin: float, vout: float) -> DividerGoal:
     vin, vout = _positive("vin", vin), _positive("vout", vout)
     if not vout < vin:
         raise ArgumentError(f"vout={vout!r}: a divider's output lies below its input (vin={vin!r})")
-    return DividerGoal("voltage", vout / vin, vin=vin, vout=vout)
+    return DividerGoal("voltage", _checked_ratio(vout / vin, f"vout={vout!r} from vin={vin!r}"), vin=vin, vout=vout)
 
 
 def regulator_goal(vref: float, vout: float, pin_current_a: float = 0.0) -> DividerGoal:
@@ -197,6 +210,7 @@ def regulator_goal(vref: float, vout: float, pin_current_a: float = 0.0) -> Divi
         raise ArgumentError(f"pin_current_a={pin_current_a!r}: the pin's bias current is 0 or more amperes")
     if not vout > vref:
         raise ArgumentError(f"vout={vout!r}: a feedback divider sets an output above the reference (vref={vref!r})")
+    _checked_ratio(vref / vout, f"vout={vout!r} from vref={vref!r}")
     ratio = vref / vout if pin_current_a == 0 else None
     return DividerGoal("regulator", ratio, vref=vref, vout=vout, pin_current_a=float(pin_current_a))
 

@@ -31,6 +31,7 @@ import re
 from dataclasses import dataclass
 from typing import Literal
 
+from netsynth import limits
 from netsynth.errors import ArgumentError, ValueParseError
 
 RcKind = Literal["tau", "corner"]
@@ -143,13 +144,28 @@ class RcGoal:
         return f"{what} with C = {self.cap_farads:.4g} F{tol}"
 
 
+#: accepted ranges: 1 fF (a trimmer's stray) to 10 kF (the largest supercapacitor banks); τ from 1 ps to
+#: about 4 months; f from 1 µHz to 1 THz. Beyond them no RC network of real parts exists.
+CAP_RANGE_F = (1e-15, 1e4)
+TAU_RANGE_S = (1e-12, 1e7)
+CORNER_RANGE_HZ = (1e-6, 1e12)
+
+
 def _goal(kind: RcKind, name: str, value: float, cap_farads: float, cap_tolerance: float) -> RcGoal:
-    for label, x in ((name, value), ("cap_farads", cap_farads)):
+    ranges = ((name, value, TAU_RANGE_S if kind == "tau" else CORNER_RANGE_HZ), ("cap_farads", cap_farads, CAP_RANGE_F))
+    for label, x, (low, high) in ranges:
         if isinstance(x, bool) or not isinstance(x, (int, float)) or not (math.isfinite(x) and x > 0):
             raise ArgumentError(f"{label}={x!r}: must be a finite value above zero")
+        if not low <= x <= high:
+            raise ArgumentError(f"{label}={x!r}: netsynth takes {low:g} to {high:g}")
     if isinstance(cap_tolerance, bool) or not isinstance(cap_tolerance, (int, float)) or not 0 <= cap_tolerance < 1:
         raise ArgumentError(f"cap_tolerance={cap_tolerance!r}: a tolerance is a fraction from 0 up to 1 (0.05 = ±5 %)")
-    return RcGoal(kind, float(value), float(cap_farads), float(cap_tolerance))
+    goal = RcGoal(kind, float(value), float(cap_farads), float(cap_tolerance))
+    r = goal.resistance_ohms
+    if not limits.MIN_OHMS <= r <= limits.MAX_OHMS:
+        raise ArgumentError(f"{name}={value!r} with cap_farads={cap_farads!r} needs R = {r:.3g} Ω, outside the "
+                            f"{limits.MIN_OHMS:g} Ω to {limits.MAX_OHMS:g} Ω netsynth builds; choose another capacitor")
+    return goal
 
 
 def tau_goal(tau_s: float, cap_farads: float, cap_tolerance: float = 0.0) -> RcGoal:

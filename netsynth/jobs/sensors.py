@@ -49,6 +49,7 @@ from collections.abc import Callable, Iterable
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, Literal, Protocol, get_args
 
+from netsynth import limits
 from netsynth.errors import ArgumentError
 
 if TYPE_CHECKING:  # the models load without numpy (the command line's --help stays fast)
@@ -228,7 +229,8 @@ class BetaNTC:
 
     def ohms(self, t_c: float) -> float:
         t = _in_range(t_c, self.low_c, self.high_c, "the thermistor model") + KELVIN_OFFSET
-        return self.r25 * math.exp(self.beta * (1 / t - 1 / (T25_C + KELVIN_OFFSET)))
+        return _exp_ohms(math.log(self.r25) + self.beta * (1 / t - 1 / (T25_C + KELVIN_OFFSET)),
+                         f"t_c={t_c!r}, r25={self.r25!r}, beta={self.beta!r}")
 
     def slope(self, t_c: float) -> float:
         """dR/dT in Ω/°C: −B·R/T²."""
@@ -277,15 +279,16 @@ class SteinhartHartNTC:
         """Ω at ``t_c``: the real root of c·x³ + b·x + (a − 1/T) = 0, x = ln R (Cardano)."""
         t = _in_range(t_c, self.low_c, self.high_c, "the thermistor model") + KELVIN_OFFSET
         d = self.a - 1 / t
+        what = f"t_c={t_c!r} with these Steinhart–Hart coefficients"
         if self.c == 0:
-            return math.exp(-d / self.b)
+            return _exp_ohms(-d / self.b, what)
         p, q = self.b / self.c, d / self.c  # x³ + p·x + q = 0, p > 0: one real root
         root = math.sqrt(q * q / 4 + p ** 3 / 27)
         x = math.copysign(abs(-q / 2 + root) ** (1 / 3), -q / 2 + root) + \
             math.copysign(abs(-q / 2 - root) ** (1 / 3), -q / 2 - root)
         for _ in range(3):  # polish the cube roots' rounding with Newton on the cubic
             x -= (self.c * x ** 3 + self.b * x + d) / (3 * self.c * x * x + self.b)
-        return math.exp(x)
+        return _exp_ohms(x, what)
 
     def slope(self, t_c: float) -> float:
         """dR/dT in Ω/°C: from d(1/T)/d(ln R) = b + 3c·(ln R)², so dR/dT = −R/(T²·(b + 3c·(ln R)²))."""
@@ -293,6 +296,17 @@ class SteinhartHartNTC:
         t = t_c + KELVIN_OFFSET
         x = math.log(r)
         return -r / (t * t * (self.b + 3 * self.c * x * x))
+
+
+def _exp_ohms(x: float, what: str) -> float:
+    """e^x as a resistance within the accepted range (netsynth.limits), else a one-line error."""
+    if not -700.0 < x < 700.0:  # beyond float range either way: no real part has such a value
+        raise ArgumentError(f"{what}: the model gives a resistance beyond any part (e^{x:.3g} Ω)")
+    r = math.exp(x)
+    if not limits.MIN_OHMS <= r <= limits.MAX_OHMS:
+        raise ArgumentError(f"{what}: the model gives {r:.3g} Ω, outside the {limits.MIN_OHMS:g} Ω to "
+                            f"{limits.MAX_OHMS:g} Ω netsynth builds")
+    return r
 
 
 def _reads_within(t_c: float, sensor: Sensor, ohms: float, extrapolate: bool) -> float:
