@@ -456,3 +456,30 @@ def test_help_teaches_units_and_examples(runner):
     assert check_help.exit_code == 0
     for text in ("85C", "1.5 kV", "150mA", "50%"):
         assert text in check_help.stdout
+
+
+def test_lazy_command_table_matches_the_commands():
+    # `netsynth --help` lists commands from cli.lazy without importing them: each entry must name the
+    # module that really registers the command, and show that command's own one-line help
+    import click
+
+    from netsynth.cli import cli as group
+
+    for name in sorted(group.lazy):
+        command = group.get_command(None, name)
+        assert command is not None, name
+        assert command.callback.__module__ == group.lazy[name][0] or isinstance(command, click.Group), name
+        assert command.get_short_help_str(limit=10**6) == group.lazy[name][1], name
+
+
+def test_help_imports_no_command_module():
+    import subprocess
+    import sys
+
+    code = ("import sys; from netsynth.cli import main\n"
+            "try:\n    main()\nexcept SystemExit:\n    pass\n"
+            "print(sorted(m for m in sys.modules if m.startswith('netsynth.cli.') and m != 'netsynth.cli.shell'),"
+            " file=sys.stderr)")
+    out = subprocess.run([sys.executable, "-c", code, "--help"], capture_output=True, text=True, check=True)
+    assert "Commands:" in out.stdout and "make" in out.stdout
+    assert out.stderr.strip() == "[]"

@@ -268,7 +268,7 @@ def test_make_rows_say_what_they_are(runner, tmp_path):
 
 
 def test_engine_choices_match_the_frontier():
-    option = next(p for p in cli.commands["make"].params if p.name == "engine")
+    option = next(p for p in cli.get_command(None, "make").params if p.name == "engine")
     assert tuple(option.type.choices) == ENGINES
 
 

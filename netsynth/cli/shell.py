@@ -22,6 +22,7 @@ fast; the commands import the search and the renderers when they run.
 
 from __future__ import annotations
 
+import importlib
 import json
 import sys
 from collections.abc import Callable, Sequence
@@ -29,6 +30,7 @@ from typing import Any
 
 import click
 from click.shell_completion import CompletionItem
+from click.utils import make_default_short_help
 
 from netsynth.analysis.conditions import (
     DEFAULT_AMBIENT_C,
@@ -180,7 +182,33 @@ def _json_error(kind: str, message: str) -> None:
 
 
 class Shell(click.Group):
-    """The ``netsynth`` group: reports every error once, as text or (with ``--json``) as JSON."""
+    """The ``netsynth`` group: reports every error once, as text or (with ``--json``) as JSON.
+
+    Commands may be registered lazily (:attr:`lazy`: name -> (module, one-line help)): the
+    module that defines a command is imported only when the command runs, and ``--help`` lists
+    it from the one-line help, so ``netsynth --help`` imports none of the command modules.
+    ``tests/test_cli.py`` checks that each one-line help is the command's own.
+    """
+
+    lazy: dict[str, tuple[str, str]] = {}
+
+    def list_commands(self, ctx: click.Context) -> list[str]:
+        return sorted(set(self.commands) | set(self.lazy))
+
+    def get_command(self, ctx: click.Context | None, cmd_name: str) -> click.Command | None:
+        if cmd_name not in self.commands and cmd_name in self.lazy:
+            importlib.import_module(self.lazy[cmd_name][0])  # registers the command on this group
+        return self.commands.get(cmd_name)
+
+    def format_commands(self, ctx: click.Context, formatter: click.HelpFormatter) -> None:
+        names = [n for n in self.list_commands(ctx) if not (n in self.commands and self.commands[n].hidden)]
+        if not names:
+            return
+        limit = formatter.width - 6 - max(len(n) for n in names)
+        rows = [(n, self.commands[n].get_short_help_str(limit) if n in self.commands
+                 else make_default_short_help(self.lazy[n][1], limit)) for n in names]
+        with formatter.section("Commands"):
+            formatter.write_dl(rows)
 
     def main(self, args: Sequence[str] | None = None, prog_name: str | None = None,
              complete_var: str | None = None, standalone_mode: bool = True, **extra: Any) -> Any:
