@@ -483,3 +483,21 @@ def test_help_imports_no_command_module():
     out = subprocess.run([sys.executable, "-c", code, "--help"], capture_output=True, text=True, check=True)
     assert "Commands:" in out.stdout and "make" in out.stdout
     assert out.stderr.strip() == "[]"
+
+
+def test_help_lists_the_lazy_commands_as_click_would():
+    # the command list netsynth --help prints from its table (no command module loaded) equals the one
+    # printed once every command module is loaded (each command's own help, shortened by click)
+    import os
+    import subprocess
+    import sys
+
+    from netsynth.cli import cli as group
+
+    modules = sorted({module for module, _ in group.lazy.values()})
+    eager = "; ".join(f"import {m}" for m in modules) + "; from netsynth.cli import main; main()"
+    env = {**os.environ, "COLUMNS": "80"}
+    outputs = [subprocess.run([sys.executable, "-c", code, "--help"], capture_output=True, text=True, env=env,
+                              check=True).stdout
+               for code in ("from netsynth.cli import main; main()", eager)]
+    assert outputs[0].split("Commands:")[1] == outputs[1].split("Commands:")[1]

@@ -30,7 +30,6 @@ from typing import Any
 
 import click
 from click.shell_completion import CompletionItem
-from click.utils import make_default_short_help
 
 from netsynth.analysis.conditions import (
     DEFAULT_AMBIENT_C,
@@ -181,6 +180,34 @@ def _json_error(kind: str, message: str) -> None:
                           allow_nan=False))
 
 
+def _shortened(text: str, limit: int) -> str:
+    """The first sentence of ``text`` in at most ``limit`` characters, ending in "..." when cut.
+
+    The rule click applies to a loaded command's help, so a listed command reads the same
+    whether or not its module is loaded: whole words while they fit; when they do not, drop
+    words until they and "..." fit.
+    """
+    words = text.split()
+    total = 0
+    for i, word in enumerate(words):
+        total += len(word) + (i > 0)
+        if total > limit:
+            break
+        if word.endswith("."):
+            return " ".join(words[: i + 1])
+        if total == limit and i != len(words) - 1:
+            break
+    else:
+        return " ".join(words)
+    total += 3
+    while i > 0:
+        total -= len(words[i]) + 1
+        if total <= limit:
+            break
+        i -= 1
+    return " ".join(words[:i]) + "..."
+
+
 class Shell(click.Group):
     """The ``netsynth`` group: reports every error once, as text or (with ``--json``) as JSON.
 
@@ -206,7 +233,7 @@ class Shell(click.Group):
             return
         limit = formatter.width - 6 - max(len(n) for n in names)
         rows = [(n, self.commands[n].get_short_help_str(limit) if n in self.commands
-                 else make_default_short_help(self.lazy[n][1], limit)) for n in names]
+                 else _shortened(self.lazy[n][1], limit)) for n in names]
         with formatter.section("Commands"):
             formatter.write_dl(rows)
 
