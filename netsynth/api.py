@@ -168,12 +168,7 @@ def check(
     listed in ``Review.not_in_bin``; a network that takes more of a line than the bin holds
     gets a note.
     """
-    if isinstance(network, str):
-        net = from_text(network)
-    elif isinstance(network, (Part, Series, Parallel)):
-        net = network
-    else:
-        raise ArgumentError(f"network={network!r}: expected a network or its text form, e.g. '1k + (2k2 || 4k7)'")
+    net = _as_network(network)
     stock = as_bin(stock)
     spec = as_fraction(spec, "spec")
     temp_c = as_temp_c(temp_c, "temp_c")
@@ -192,6 +187,15 @@ def check(
     if short:
         verdict = dataclasses.replace(verdict, notes=verdict.notes + short)
     return candidate, verdict
+
+
+def _as_network(network: object) -> Network:
+    """A network given as a tree or in its text form."""
+    if isinstance(network, str):
+        return from_text(network)
+    if isinstance(network, (Part, Series, Parallel)):
+        return network
+    raise ArgumentError(f"network={network!r}: expected a network or its text form, e.g. '1k + (2k2 || 4k7)'")
 
 
 def checked(found: Found, target_ohms: float) -> Candidate:
@@ -237,12 +241,7 @@ def take_list(
         When the bin cannot supply the network: a value it does not hold, or more parts of a
         value than its lines hold together (naming the value, what is held and what is needed).
     """
-    if isinstance(network, str):
-        net = from_text(network)
-    elif isinstance(network, (Part, Series, Parallel)):
-        net = network
-    else:
-        raise ArgumentError(f"network={network!r}: expected a network or its text form, e.g. '1k + (2k2 || 4k7)'")
+    net = _as_network(network)
     stock = as_bin(stock)
     _check_conditions(point, derating)
     assigned = assign_lines(net, stock, point, derating)
