@@ -18,7 +18,7 @@ from netsynth.analysis.conditions import (
 from netsynth.analysis.review import SAFETY_NOTE, review
 from netsynth.analysis.lines import assign_lines
 from netsynth.analysis.stress import network_stress
-from netsynth.errors import ArgumentError, InfeasibleError
+from netsynth.errors import ArgumentError
 from netsynth.network import from_text, parallel, parts_in_order, resistance, series
 from netsynth.stock import StockBin, StockItem
 from tests.strategies import networks

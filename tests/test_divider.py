@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import itertools
 import json
-import math
 import random
 from collections import Counter
 from fractions import Fraction
@@ -18,7 +17,6 @@ from netsynth.cli import cli
 from netsynth.errors import ArgumentError, InfeasibleError
 from netsynth.jobs.divider import (
     design_divider,
-    divider_review,
     ratio_goal,
     regulator_goal,
     search_divider,

@@ -16,9 +16,9 @@ from netsynth import limits
 from netsynth.analysis.conditions import Derating, OperatingPoint
 from netsynth.api import check
 from netsynth.cli import cli
-from netsynth.errors import ArgumentError, NetsynthError, StockError, ValueParseError
+from netsynth.errors import ArgumentError, StockError, ValueParseError
 from netsynth.inputs import as_factor, as_fraction, as_ohms, as_temp_c
-from netsynth.network import Part, from_text, levels, parallel, part_count, series, to_netlist
+from netsynth.network import Part, from_text, levels, parallel, part_count, series
 from netsynth.nodal import Edge, equivalent_resistance
 from netsynth.stock import StockItem, load_bin
 from netsynth.values import (

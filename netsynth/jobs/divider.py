@@ -63,7 +63,7 @@ from netsynth.analysis.lines import assign_lines, value_pool
 from netsynth.analysis.review import SAFETY_NOTE
 from netsynth.analysis.stress import NetworkStress, line_of, network_stress
 from netsynth.analysis.thermal import temperature_coefficient
-from netsynth.analysis.tolerance import sensitivities, tolerance_band
+from netsynth.analysis.tolerance import tolerance_band
 from netsynth.design import PickLine
 from netsynth.errors import ArgumentError, InfeasibleError
 from netsynth.network import Network, Part, Series, parts_in_order, resistance, series, to_netlist, to_text, value_network
