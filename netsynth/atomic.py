@@ -1,5 +1,6 @@
 """Files the user owns: written so that a crash leaves the old version or the new one, never a mix;
-read with a size cap, so an endless device or a pipe is refused instead of read forever.
+read with a size cap, so an endless device or a pipe is refused instead of read forever; decoded
+as UTF-8 and split into CSV rows with errors that name the file and line.
 
 :func:`write_atomic` is the one way netsynth writes files: bin files (``save_bin``, ``bin take``,
 ``bin add``), and the SVG, SPICE and CSV files the command line writes.
@@ -12,9 +13,12 @@ fsynced so the rename itself survives a power cut.
 
 from __future__ import annotations
 
+import csv
+import io
 import os
 import secrets
 import stat
+from collections.abc import Iterator
 
 from netsynth.errors import NetsynthError
 
@@ -119,6 +123,33 @@ def read_capped(path: str, cap: int, *, error: type[NetsynthError], what: str = 
     except OSError as e:
         raise error(f"cannot open {what} '{shown}': {e.strerror or 'cannot be read'}") from None
     if len(data) > cap:
-        raise error(f"{shown}: the {what} is larger than {cap // 1024 // 1024} MiB, more than it can "
+        raise error(f"{shown}: the {what} is larger than {cap / 2**20:.3g} MiB, more than it can "
                     "sensibly hold; check that it is the right file")
     return data
+
+
+def utf8_text(data: bytes, path: str, *, error: type[NetsynthError]) -> str:
+    """The file's bytes as text (UTF-8, a byte-order mark tolerated); the first bad byte's line named."""
+    try:
+        return data.decode("utf-8-sig")
+    except UnicodeDecodeError as e:
+        line = data[: e.start].count(b"\n") + 1
+        raise error(f"{path}, line {line}: byte 0x{data[e.start]:02x} is not UTF-8 text; save the file "
+                    "as UTF-8 (CSV UTF-8 in a spreadsheet)") from None
+
+
+def csv_rows(text: str, path: str, *, error: type[NetsynthError]) -> Iterator[tuple[int, list[str]]]:
+    """(first line number, stripped cells) of each CSV row that is neither blank nor a ``#`` comment."""
+    reader = csv.reader(io.StringIO(text, newline=""), strict=True)
+    while True:
+        line = reader.line_num + 1
+        try:
+            cells = next(reader)
+        except StopIteration:
+            return
+        except csv.Error as e:
+            raise error(f"{path}, line {line}: cannot read the CSV ({e}); check the quotes on this line") from None
+        cells = [cell.strip() for cell in cells]
+        if not any(cells) or cells[0].startswith("#"):
+            continue
+        yield line, cells

@@ -69,6 +69,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import Literal
 
+from netsynth.atomic import read_capped, utf8_text
 from netsynth.errors import ArgumentError, ValueParseError
 from netsynth.network import Network, Part, parallel, series
 from netsynth.nodal import Edge
@@ -89,7 +90,7 @@ __all__ = [
 #: netlists larger than this are refused (a resistor network to build by hand, not a chip)
 MAX_ELEMENTS = 2_000
 #: bytes read at most from a netlist file
-MAX_BYTES = 5_000_000
+MAX_BYTES = 5 * 2**20
 
 
 @dataclass(frozen=True, slots=True)
@@ -161,23 +162,7 @@ def read_netlist(path: str | os.PathLike) -> Netlist:
         resistor, an element that cannot be read, or more than :data:`MAX_ELEMENTS` parts.
     """
     name = os.fsdecode(os.fspath(path))
-    try:
-        with open(name, "rb") as f:
-            data = f.read(MAX_BYTES + 1)
-    except FileNotFoundError:
-        raise ValueParseError(f"cannot open {name!r}: no such file; check the path") from None
-    except IsADirectoryError:
-        raise ValueParseError(f"cannot open {name!r}: it is a folder; give a netlist file") from None
-    except OSError as e:
-        raise ValueParseError(f"cannot open {name!r}: {e.strerror or e}") from None
-    if len(data) > MAX_BYTES:
-        raise ValueParseError(f"{name}: the file is larger than {MAX_BYTES // 1_000_000} MB; "
-                              "a netlist of resistors to check is far smaller")
-    try:
-        text = data.decode("utf-8-sig")
-    except UnicodeDecodeError as e:
-        line = data[: e.start].count(b"\n") + 1
-        raise ValueParseError(f"{name}, line {line}: not UTF-8 text; save the file as UTF-8") from None
+    text = utf8_text(read_capped(name, MAX_BYTES, error=ValueParseError, what="netlist"), name, error=ValueParseError)
     return parse_netlist(text, name)
 
 

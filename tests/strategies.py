@@ -44,8 +44,10 @@ def _join(join, runs: list[tuple[Network, int]]) -> Network:
 
 
 def _runs(kids: st.SearchStrategy[Network]) -> st.SearchStrategy[list[tuple[Network, int]]]:
-    """One to three children, each repeated 1 to 4 times side by side."""
-    return st.lists(st.tuples(kids, st.integers(1, 4)), min_size=1, max_size=3)
+    """One to three children, each repeated 1 to 4 times side by side (10 000 parts at most: nested
+    runs multiply, and a larger tree would be refused while it is built)."""
+    return st.lists(st.tuples(kids, st.integers(1, 4)), min_size=1, max_size=3).filter(
+        lambda runs: sum(part_count(k) * n for k, n in runs) <= 10_000)
 
 
 def repeated_networks(max_leaves: int = 8, max_parts: int = 300) -> st.SearchStrategy[Network]:

@@ -98,7 +98,10 @@ values = st.sampled_from([0.47, 10.0, 22.0, 100.0, 4700.0, 1e6])
 
 
 def _runs_of(join, kids):
-    return st.lists(st.tuples(kids, st.integers(1, 8)), min_size=1, max_size=3).map(
+    # at most 400 parts per tree, checked before joining: nested runs multiply, and a tree past the
+    # 10 000-part limit would be refused while it is built
+    return st.lists(st.tuples(kids, st.integers(1, 8)), min_size=1, max_size=3).filter(
+        lambda runs: sum(part_count(k) * n for k, n in runs) <= 400).map(
         lambda runs: join(*[k for k, n in runs for _ in range(n)]))
 
 

@@ -25,15 +25,13 @@ header, a missing column, a repeated reference) an :class:`~netsynth.errors.Argu
 
 from __future__ import annotations
 
-import csv
-import io
 import os
 from collections.abc import Iterable
 from dataclasses import dataclass
 
 from netsynth import limits
 from netsynth.analysis.conditions import DEFAULT_AMBIENT_C, OperatingPoint
-from netsynth.atomic import read_capped
+from netsynth.atomic import csv_rows, read_capped, utf8_text
 from netsynth.errors import ArgumentError, ValueParseError
 from netsynth.values import parse_current, parse_power, parse_ratio, parse_resistance, parse_voltage
 
@@ -170,27 +168,10 @@ def _need(row: dict[str, str], where: str, line: int, ambient_c: float) -> Need:
 
 
 def _read_text(path: str) -> str:
-    data = read_capped(path, limits.MAX_BIN_BYTES, error=ArgumentError, what="needs file")
-    try:
-        return data.decode("utf-8-sig")
-    except UnicodeDecodeError as e:
-        line = data[: e.start].count(b"\n") + 1
-        raise ArgumentError(f"{path}, line {line}: byte 0x{data[e.start]:02x} is not UTF-8 text; save the file "
-                            "as UTF-8 (CSV UTF-8 in a spreadsheet)") from None
+    return utf8_text(read_capped(path, limits.MAX_BIN_BYTES, error=ArgumentError, what="needs file"), path,
+                     error=ArgumentError)
 
 
 def _rows(text: str, path: str) -> Iterable[tuple[int, list[str]]]:
     """(line number, stripped cells) of each row that is not a comment or blank."""
-    reader = csv.reader(io.StringIO(text, newline=""), strict=True)
-    while True:
-        line = reader.line_num + 1
-        try:
-            cells = next(reader)
-        except StopIteration:
-            return
-        except csv.Error as e:
-            raise ArgumentError(f"{path}, line {line}: cannot read the CSV ({e}); check the quotes on this line") from None
-        cells = [cell.strip() for cell in cells]
-        if not any(cells) or cells[0].startswith("#"):
-            continue
-        yield line, cells
+    return csv_rows(text, path, error=ArgumentError)

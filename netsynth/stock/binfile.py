@@ -83,7 +83,7 @@ from collections.abc import Callable, Iterable
 from decimal import Decimal
 
 from netsynth import limits, values
-from netsynth.atomic import write_atomic
+from netsynth.atomic import csv_rows, write_atomic
 from netsynth.errors import StockError, ValueParseError
 from netsynth.stock.items import (
     COLUMNS,
@@ -210,20 +210,7 @@ def _header(rows: Iterable[tuple[int, list[str]]], path: str) -> tuple[int, list
 
 def _rows(text: str, path: str) -> Iterable[tuple[int, list[str]]]:
     """(first line number, stripped cells) of each row that is not a comment or blank."""
-    reader = csv.reader(io.StringIO(text, newline=""), strict=True)
-    while True:
-        line = reader.line_num + 1
-        try:
-            cells = next(reader)
-        except StopIteration:
-            return
-        except csv.Error as e:
-            raise StockError(f"{path}, line {line}: cannot read the CSV ({e}); check the quotes "
-                             "on this line") from None
-        cells = [cell.strip() for cell in cells]
-        if not any(cells) or cells[0].startswith("#"):
-            continue
-        yield line, cells
+    return csv_rows(text, path, error=StockError)
 
 
 def load_bin(path: str | os.PathLike) -> StockBin:
