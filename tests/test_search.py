@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import itertools
+import os
 from collections import Counter
 from fractions import Fraction
 from functools import lru_cache
@@ -24,6 +25,22 @@ from netsynth.stock import StockBin, StockItem, bin_from_values
 A048211 = [1, 2, 4, 9, 22, 53, 131, 337, 869, 2213, 5691, 14517]
 # OEIS A153588: distinct resistances of at most n equal resistors, series and parallel.
 A153588 = [1, 3, 7, 15, 35, 77, 179, 429, 1039, 2525, 6235, 15463]
+
+
+@pytest.fixture(scope="module", autouse=True, params=["compiled", "numpy"])
+def engine_kind(request):
+    """Every test here runs on both engines: the compiled recursion and the numpy one."""
+    from netsynth.search import kernel
+
+    if request.param == "compiled" and not kernel.built():
+        pytest.skip("the compiled recursion was not built (no C compiler at install)")
+    before = os.environ.get("NETSYNTH_KERNEL")
+    os.environ["NETSYNTH_KERNEL"] = "on" if request.param == "compiled" else "off"
+    yield request.param
+    if before is None:
+        del os.environ["NETSYNTH_KERNEL"]
+    else:
+        os.environ["NETSYNTH_KERNEL"] = before
 
 
 @pytest.fixture(scope="module")

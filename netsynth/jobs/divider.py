@@ -68,7 +68,7 @@ from netsynth.design import PickLine
 from netsynth.errors import ArgumentError, InfeasibleError
 from netsynth.network import Network, Part, Series, parts_in_order, resistance, series, to_netlist, to_text, value_network
 from netsynth.nodal import VERIFY_RTOL, verify_resistance
-from netsynth.search.exact import MAX_LOOKUPS, ExactSearch
+from netsynth.search.exact import ExactSearch, lookup_budget
 from netsynth.stock import StockBin, StockItem, bin_order
 
 GoalKind = Literal["ratio", "voltage", "regulator"]
@@ -399,7 +399,7 @@ def search_divider(goal: DividerGoal, stock: StockBin, max_parts: int = DEFAULT_
     engine = ExactSearch(values, counts, max_parts)
     splits = [(kt, k - kt) for k in range(2, max_parts + 1) for kt in range(1, k)]
     work = sum(engine.lookups(max(s), len(engine.tables[min(s)])) for s in splits)
-    if work > MAX_LOOKUPS:
+    if work > lookup_budget(engine.limited):
         raise InfeasibleError(
             f"a joint search of both arms for {max_parts} parts on a bin of {len(values)} values needs about "
             f"{work:.1e} table look-ups, too many to finish in reasonable time; ask for fewer parts "

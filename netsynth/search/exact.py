@@ -52,7 +52,7 @@ entry that could still beat the best found (a ⊕ x lies beyond a).
 Cost model
 ----------
 :meth:`ExactSearch.lookups` estimates the table look-ups from the bin's size alone,
-before any table is built; a request above :data:`MAX_LOOKUPS` is refused with the
+before any table is built; a request above :func:`lookup_budget` is refused with the
 largest part count that fits, and that count is always accepted (it is computed by
 the same function).
 """
@@ -68,7 +68,7 @@ import numpy as np
 
 from netsynth.errors import InfeasibleError
 from netsynth.network import Network, Part, parallel, part_values, resistance, series
-from netsynth.search import cache
+from netsynth.search import cache, kernel
 from netsynth.search.tables import (
     KIND_ANY,
     KIND_PAR,
@@ -86,10 +86,14 @@ from netsynth.search.tables import (
 
 #: query rows (targets × table entries) handled in one numpy step; bounds memory.
 CHUNK_ROWS = 1_000_000
-#: table look-ups one search may need before it is refused as too long; measured 0.05 µs
-#: (E24, 6 parts) to 0.16 µs (E96, 5 parts) per look-up on the reference 2-core machine,
-#: so 15–50 s at worst; typical targets hit an exact network early and take far less.
+#: estimated table look-ups one search may need before it is refused as too long, in numpy:
+#: measured 0.05 µs (E24, 6 parts) to 0.16 µs (E96, 5 parts) per look-up on the reference
+#: 2-core machine, so 15–50 s at worst; typical targets hit an exact network early.
 MAX_LOOKUPS = 300_000_000
+#: the same with the compiled recursion (:mod:`.kernel`): measured 3 ns (E192, 5 parts) to 10 ns
+#: (E24, 6 parts; E96, 5 parts) per estimated look-up on targets with no early exact hit, both
+#: cores, so about 40 s at worst. The limited engine stays in numpy and keeps :data:`MAX_LOOKUPS`.
+MAX_LOOKUPS_COMPILED = 4_000_000_000
 #: the largest table level built (``any`` entries, estimated from the bin's size): a level
 #: holds about twice that many entries over its three tables at 20 bytes each (measured: 5.25 M
 #: on 169 values take 210 MB), so 12 million stay under 500 MB.
@@ -143,6 +147,11 @@ def estimated_sizes(values: int, h: int) -> dict[int, int]:
             pairs += 2 * (a * (a + 1) // 2 if n1 == n - n1 else a * b)
         sizes[n] = pairs if n == 2 else int(0.6 * pairs)
     return sizes
+
+
+def lookup_budget(limited: bool) -> int:
+    """The estimated look-ups a search may take: more when the compiled recursion will run it."""
+    return MAX_LOOKUPS_COMPILED if kernel.enabled() and not limited else MAX_LOOKUPS
 
 
 def plan(values: int, max_parts: int) -> tuple[int, int]:
@@ -218,8 +227,9 @@ class ExactSearch:
         self.limits = lim if self.limited else None
         self.max_parts = max_parts
         self.h, work = plan(len(self.values), max_parts)
-        if work > MAX_LOOKUPS:
-            fits = max((n for n in range(1, max_parts) if plan(len(self.values), n)[1] <= MAX_LOOKUPS), default=1)
+        budget = lookup_budget(self.limited)
+        if work > budget:
+            fits = max((n for n in range(1, max_parts) if plan(len(self.values), n)[1] <= budget), default=1)
             raise InfeasibleError(
                 f"an exhaustive search for {max_parts} parts on a bin of {len(self.values)} values needs about "
                 f"{work:.1e} table look-ups, too many to finish in reasonable time; ask for at most "
@@ -437,6 +447,7 @@ class _Engine:
         self.h = h
         self.vmin, self.vmax = float(values[0]), float(values[-1])
         self.looked = 0  #: table look-ups made so far (to check the cost model)
+        self._kernel_tables: tuple | None = None  # the tables as the compiled recursion takes them
 
     # ------------------------------------------------------------ witnesses
 
@@ -548,6 +559,8 @@ class _Engine:
         if n <= self.h:
             table = self.levels[n].non(op) if 2 * m > n else self.levels[n].any
             return self._lookup(table, op, r, bounded=n == m)
+        if self._compiled():
+            return self._kernel(0, op, n, m, r)
         if n == m:
             lo, hi = self._nodes(_other(op), n, 1, _bounded_rows(op, r))
             lo, hi = _bound_filter(op, r, lo, hi)
@@ -560,11 +573,28 @@ class _Engine:
 
     def _nodes(self, op: int, n: int, m: int, r: _Rows) -> tuple[np.ndarray, np.ndarray]:
         """Floor and ceil over ⊕ nodes of n parts whose children all have at least m parts."""
+        if self._compiled():
+            return self._kernel(1, op, n, m, r)
         lo = np.full(len(r.t), NEG)
         hi = np.full(len(r.t), POS)
         for n1 in range(m, n // 2 + 1):
             for rows, _, a, clo, chi, _ in self._split(op, n, n1, m, r, lo, hi):
                 _reduce(op, lo, hi, rows, a, clo, chi)
+        return lo, hi
+
+    def _compiled(self) -> bool:
+        """Whether the compiled recursion (:mod:`.kernel`) answers; unlimited bins only."""
+        return self.limits is None and kernel.enabled()
+
+    def _kernel(self, what: int, op: int, n: int, m: int, r: _Rows) -> tuple[np.ndarray, np.ndarray]:
+        if self._kernel_tables is None:
+            self._kernel_tables = tuple(
+                tuple(np.ascontiguousarray(t.values, dtype=np.float64) for t in (lv.ser, lv.par, lv.any))
+                for lv in (self.levels[i] for i in range(1, self.h + 1))
+            )
+        lo, hi, looked = kernel.bounds(self._kernel_tables, self.vmin, self.vmax, what, op, n, m,
+                                       r.t, r.bnd, r.L, r.U)
+        self.looked += looked
         return lo, hi
 
     def _split(self, op, n, n1, m, r: _Rows, lo, hi) -> Iterator:

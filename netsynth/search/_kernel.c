@@ -1,0 +1,513 @@
+/*
+ * The exact search's inner recursion, compiled (netsynth.search.kernel wraps it).
+ *
+ * It computes, one query row at a time, what ExactSearch's numpy engine computes for many
+ * rows at once (netsynth/search/exact.py, "Method" and "Pruning"): the floor and ceil of the
+ * values of a family of series/parallel networks of n parts at a target t, within a window
+ * [L, U] outside which no value matters. The canonical splits, the target-window cut and the
+ * boundary entries are the same, step for step, with the same floating-point expressions (the
+ * build turns off contraction into fused multiply-adds), so both give the same answers.
+ *
+ * Two things only a row-at-a-time loop can do, both exact:
+ *   - the window narrows as the row's floor and ceil improve: a value at or below the floor
+ *     found so far, or at or above the ceil, can change neither, so [L, U] becomes
+ *     [max(L, floor), min(U, ceil)] for the branches that follow;
+ *   - a split stops at the first child a whose least join, a + (least x) or a ∥ (least x),
+ *     lies above the window: the children come in ascending order and both joins grow with a.
+ *
+ * Tables are the sorted value arrays of each level (1..h parts): the networks whose top is a
+ * series node, a parallel node, or either. Unlimited bins only: the limited engine, which
+ * tracks the parts each row has used, stays in numpy.
+ */
+#define PY_SSIZE_T_CLEAN
+#include <Python.h>
+#include <math.h>
+#include <string.h>
+
+#define OP_SERIES 1
+#define OP_PARALLEL 2
+#define MAX_LEVEL 24   /* tables of up to this many parts */
+#define MAX_PARTS 64   /* recursion depth: part counts up to this */
+
+typedef struct {
+    const double *v;
+    Py_ssize_t n;
+} Tab;
+
+typedef struct {
+    Tab ser[MAX_LEVEL + 1], par[MAX_LEVEL + 1], any[MAX_LEVEL + 1];
+    int h;
+    double vmin, vmax;
+    long long looked;
+} Ctx;
+
+typedef struct {
+    double t, bnd, L, U;
+} Row;
+
+typedef struct {
+    double lo, hi;
+} Bounds;
+
+static const double NEG = -HUGE_VAL, POS = HUGE_VAL;
+
+static inline double dmax(double a, double b) { return a > b ? a : b; }
+static inline double dmin(double a, double b) { return a < b ? a : b; }
+
+/* numpy.searchsorted(v, x, side="left"); NaN sorts last, as in numpy */
+static inline Py_ssize_t lower_bound(const double *v, Py_ssize_t n, double x) {
+    if (n == 0) return 0;
+    if (x != x) return n;
+    const double *base = v;
+    Py_ssize_t len = n;
+    while (len > 1) {
+        Py_ssize_t half = len >> 1;
+        base = (base[half] < x) ? base + half : base;
+        len -= half;
+    }
+    return (base - v) + (*base < x);
+}
+
+/* numpy.searchsorted(v, x, side="right") */
+static inline Py_ssize_t upper_bound(const double *v, Py_ssize_t n, double x) {
+    if (n == 0) return 0;
+    if (x != x) return n;
+    const double *base = v;
+    Py_ssize_t len = n;
+    while (len > 1) {
+        Py_ssize_t half = len >> 1;
+        base = (base[half] <= x) ? base + half : base;
+        len -= half;
+    }
+    return (base - v) + (*base <= x);
+}
+
+/* lower_bound(v, n, x) found from a nearby index: exponential steps away from `hint`, then
+ * bisection; about 2 log2(distance) probes, all near the last answer (cache-warm). */
+static inline Py_ssize_t gallop_lower(const double *v, Py_ssize_t n, double x, Py_ssize_t hint) {
+    if (x != x) return n;
+    Py_ssize_t lo, hi, step = 1; /* the answer lies in (lo, hi]: v[lo] < x (or lo = -1), v[hi] >= x (or hi = n) */
+    if (hint >= n || (hint >= 0 && v[hint] >= x)) {
+        hi = hint >= n ? n : hint;
+        lo = hi - 1;
+        while (lo >= 0 && v[lo] >= x) {
+            hi = lo;
+            lo -= step;
+            step <<= 1;
+        }
+        if (lo < -1) lo = -1;
+    } else {
+        lo = hint < 0 ? -1 : hint;
+        hi = lo + 1;
+        while (hi < n && v[hi] < x) {
+            lo = hi;
+            hi += step;
+            step <<= 1;
+        }
+        if (hi > n) hi = n;
+    }
+    while (hi - lo > 1) {
+        Py_ssize_t mid = lo + ((hi - lo) >> 1);
+        if (v[mid] < x) lo = mid;
+        else hi = mid;
+    }
+    return hi;
+}
+
+static inline const Tab *non(const Ctx *c, int op, int n) {
+    return op == OP_SERIES ? &c->par[n] : &c->ser[n];
+}
+
+static inline double join(int op, double a, double x) {
+    if (op == OP_SERIES) return a + x;
+    return (a * x) / (a + x);
+}
+
+/* the x at which a ∥ x equals edge; `none` where no x does (exact.py _par_child) */
+static inline double par_child(double edge, double a, double none) {
+    if (!(isfinite(edge) && edge > 0)) return none;
+    double g = 1.0 / edge - 1.0 / a;
+    return g > 0 ? 1.0 / g : POS;
+}
+
+/* the target for x such that a ∥ x lands on t (exact.py _child_target) */
+static inline double par_target(double t, double a) {
+    if (t <= 0) return t;
+    double g = 1.0 / t - 1.0 / a;
+    return g > 0 ? 1.0 / g : POS;
+}
+
+/* drop a floor below a series bound, or a ceil above a parallel bound (exact.py _bound_filter) */
+static inline Bounds bound_filter(int op, Row r, Bounds b) {
+    if (op == OP_SERIES) {
+        if (!(b.lo >= r.bnd && r.bnd <= r.t)) b.lo = NEG;
+    } else {
+        if (!(b.hi <= r.bnd && r.bnd >= r.t)) b.hi = POS;
+    }
+    return b;
+}
+
+static Bounds lookup(Ctx *c, const Tab *tb, int op, Row r, int bounded) {
+    Bounds out = {NEG, POS};
+    c->looked++;
+    Py_ssize_t size = tb->n;
+    const double *v = tb->v;
+    if (size == 0) return out;
+    double tf = r.t, tc = r.t;
+    if (bounded) {
+        if (op == OP_SERIES) tc = dmax(r.t, r.bnd);
+        else tf = dmin(r.t, r.bnd);
+    }
+    Py_ssize_t ihi = lower_bound(v, size, tc);
+    Py_ssize_t ilo;
+    if (tf == tc) /* one search: the floor is the entry at ihi when it equals t, else the one before */
+        ilo = (ihi < size && v[ihi] == tf) ? ihi : ihi - 1;
+    else
+        ilo = upper_bound(v, size, tf) - 1;
+    if (ilo >= 0) out.lo = v[ilo];
+    if (ihi < size) out.hi = v[ihi];
+    if (bounded) out = bound_filter(op, r, out);
+    return out;
+}
+
+static Bounds nodes(Ctx *c, int op, int n, int m, Row r);
+
+/* floor and ceil over x of n parts that may follow an ⊕ child of m parts (exact.py _family) */
+static Bounds family(Ctx *c, int op, int n, int m, Row r) {
+    if (n <= c->h) {
+        const Tab *tb = (2 * m > n) ? non(c, op, n) : &c->any[n];
+        return lookup(c, tb, op, r, n == m);
+    }
+    int other = op == OP_SERIES ? OP_PARALLEL : OP_SERIES;
+    Row rr = r;
+    rr.bnd = other == OP_SERIES ? NEG : POS;
+    Bounds res;
+    if (n == m) {
+        rr.t = op == OP_SERIES ? dmax(r.t, r.bnd) : dmin(r.t, r.bnd);
+        res = bound_filter(op, r, nodes(c, other, n, 1, rr));
+    } else {
+        res = nodes(c, other, n, 1, rr);
+    }
+    if (2 * m <= n) {
+        Row r2 = r;
+        r2.L = dmax(r.L, res.lo);
+        r2.U = dmin(r.U, res.hi);
+        Bounds b = nodes(c, op, n, m, r2);
+        res.lo = dmax(res.lo, b.lo);
+        res.hi = dmin(res.hi, b.hi);
+    }
+    return res;
+}
+
+/*
+ * A split whose x comes from a table: the same as family()'s lookup for each a in turn, but
+ * BLOCK look-ups at a time, their binary searches advanced in step. A lone branchless binary
+ * search waits on one load per step; BLOCK independent ones keep that many loads in flight.
+ * A look-up reads no window, so batching them changes no answer.
+ */
+#define BLOCK 16
+/* gallop when the a's are at least 1/NEAR_RATIO as many as the x table's entries */
+#define NEAR_RATIO 16
+
+static void leaf_split(Ctx *c, int op, int same, double xmin, const double *v, Py_ssize_t start, Py_ssize_t stop,
+                       const Tab *xt, Row r, Bounds *res) {
+    const double *x = xt->v;
+    Py_ssize_t size = xt->n;
+    double tc[BLOCK], tf[BLOCK], as[BLOCK];
+    const double *base[BLOCK];
+    Py_ssize_t idx[BLOCK], hint = size / 2;
+    /* the a's span about as many x entries as there are a's, or fewer: gallop; else bisect in blocks */
+    int near = (stop - start) * NEAR_RATIO >= size;
+    for (Py_ssize_t i = start; i < stop; i += BLOCK) {
+        double U = dmin(r.U, res->hi);
+        int k = 0, done = 0;
+        for (; k < BLOCK && i + k < stop; k++) {
+            double a = v[i + k];
+            /* as in split(): x of the same size is not below a (series); the least x else is xmin */
+            double least = op == OP_SERIES ? a + (same ? dmax(xmin, a) : xmin) : a * xmin / (a + xmin);
+            if (least > U) {
+                done = 1;
+                break;
+            }
+            double t = op == OP_SERIES ? r.t - a : par_target(r.t, a);
+            as[k] = a;
+            tc[k] = tf[k] = t;
+            if (same) { /* bounded: x is not below a (series) nor above it (parallel) */
+                if (op == OP_SERIES) tc[k] = dmax(t, a);
+                else tf[k] = dmin(t, a);
+            }
+        }
+        c->looked += k;
+        if (size == 0) {
+            if (done) break;
+            continue;
+        }
+        if (near) { /* consecutive targets lie close together in x: walk from the last answer */
+            for (int j = 0; j < k; j++) hint = idx[j] = gallop_lower(x, size, tc[j], hint);
+        } else {
+            for (int j = 0; j < k; j++) base[j] = x;
+            Py_ssize_t len = size;
+            while (len > 1) {
+                Py_ssize_t half = len >> 1;
+                for (int j = 0; j < k; j++) base[j] = (base[j][half] < tc[j]) ? base[j] + half : base[j];
+                len -= half;
+            }
+            for (int j = 0; j < k; j++) idx[j] = tc[j] != tc[j] ? size : (base[j] - x) + (*base[j] < tc[j]);
+        }
+        for (int j = 0; j < k; j++) {
+            double a = as[j];
+            Py_ssize_t ihi = idx[j];
+            Py_ssize_t ilo;
+            if (tf[j] == tc[j])
+                ilo = (ihi < size && x[ihi] == tf[j]) ? ihi : ihi - 1;
+            else
+                ilo = upper_bound(x, size, tf[j]) - 1;
+            Bounds b = {ilo >= 0 ? x[ilo] : NEG, ihi < size ? x[ihi] : POS};
+            if (same) {
+                Row sub = {tc[j] == tf[j] ? tc[j] : (op == OP_SERIES ? tf[j] : tc[j]), a, 0, 0};
+                b = bound_filter(op, sub, b);
+            }
+            if (isfinite(b.lo)) res->lo = dmax(res->lo, join(op, a, b.lo));
+            if (isfinite(b.hi)) res->hi = dmin(res->hi, join(op, a, b.hi));
+        }
+        if (done) break;
+    }
+}
+
+/*
+ * The same pairs as leaf_split() over the a's of `as` (n entries, ascending, all on the
+ * target's near side), taken the other way round: for each x that could bring a ⊕ x into the
+ * window, the nearest a on either side of x's partner target. Worth it when fewer x than a
+ * can matter: a series target t is met by x = t − a, and the many small a's all ask for x just
+ * below t. Returns 0, doing nothing, when it would not save look-ups.
+ *
+ * Pair sets: a ⊕ x ≤ t ⇔ a ≤ (partner target of x), as a ⊕ x ≤ t ⇔ x ≤ (partner target of a)
+ * in leaf_split(); the same-size bound (series x ≥ a, parallel x ≤ a) is checked on each pair.
+ */
+static int swapped_split(Ctx *c, int op, int same, const double *as, Py_ssize_t n, const Tab *xt, Row r,
+                         Bounds *res) {
+    const double *x = xt->v;
+    Py_ssize_t size = xt->n;
+    double L = dmax(r.L, res->lo), U = dmin(r.U, res->hi);
+    double first = as[0], last = as[n - 1];
+    Py_ssize_t x0, x1;
+    if (op == OP_SERIES) {
+        x0 = lower_bound(x, size, same ? dmax(L - last, first) : L - last);
+        x1 = upper_bound(x, size, U - first);
+    } else {
+        x0 = lower_bound(x, size, par_child(L, last, NEG));
+        double top = par_child(U, first, POS);
+        x1 = upper_bound(x, size, same ? dmin(top, last) : top);
+    }
+    if (x1 - x0 < 0) x1 = x0;
+    if ((x1 - x0) * 2 >= n) return 0;
+    c->looked += x1 - x0;
+    Py_ssize_t hint = n - 1;
+    for (Py_ssize_t i = x0; i < x1; i++) {
+        double xv = x[i];
+        double q = op == OP_SERIES ? r.t - xv : par_target(r.t, xv);
+        double qf = q, qc = q; /* the floor takes the largest a <= qf, the ceil the smallest a >= qc */
+        if (same) {
+            if (op == OP_SERIES) qf = dmin(q, xv);
+            else qc = dmax(q, xv);
+        }
+        Py_ssize_t ci = hint = gallop_lower(as, n, qc, hint);
+        Py_ssize_t fi = qf == qc ? ((ci < n && as[ci] == qf) ? ci : ci - 1) : upper_bound(as, n, qf) - 1;
+        if (fi >= 0 && !(same && op == OP_PARALLEL && as[fi] < xv)) res->lo = dmax(res->lo, join(op, as[fi], xv));
+        if (ci < n && !(same && op == OP_SERIES && as[ci] > xv)) res->hi = dmin(res->hi, join(op, as[ci], xv));
+    }
+    return 1;
+}
+
+/* fold the ⊕ nodes of one split (a of n1 parts, x of n − n1) into res (exact.py _split) */
+static void split(Ctx *c, int op, int n, int n1, int m, Row r, Bounds *res) {
+    int n2 = n - n1;
+    const Tab *tb = non(c, op, n1);
+    const double *v = tb->v;
+    Py_ssize_t size = tb->n;
+    if (size == 0) return;
+    int same = n1 == n2;
+    double cc = same ? 2.0 : 1.0;
+    int bounded = n1 == m;
+    double xmin = c->vmin / n2, xmax = c->vmax * n2;
+    double L = dmax(r.L, res->lo), U = dmin(r.U, res->hi);
+    Py_ssize_t start, stop, full;
+    if (op == OP_SERIES) {
+        double low = L - xmax;
+        if (bounded) low = dmax(low, r.bnd);
+        start = lower_bound(v, size, low);
+        full = lower_bound(v, size, r.t / cc);
+        if (full < start) full = start;
+        Py_ssize_t b = full < size - 1 ? full : size - 1;
+        double least = v[b] + dmax(xmin, same ? v[b] : 0.0);
+        stop = full + ((full < size) && (least <= U));
+    } else {
+        double g = 1.0 / U - 1.0 / xmin;
+        double high = g > 0 ? 1.0 / g : POS;
+        if (bounded) high = dmin(high, r.bnd);
+        stop = upper_bound(v, size, high);
+        full = upper_bound(v, size, r.t * cc);
+        if (full > stop) full = stop;
+        Py_ssize_t b = full - 1 > 0 ? full - 1 : 0;
+        double x = same ? dmin(xmax, v[b]) : xmax;
+        double most = v[b] * x / (v[b] + x);
+        start = full - ((full > 0) && (most >= L));
+    }
+    if (n2 <= c->h) {
+        const Tab *xt = (2 * n1 > n2) ? non(c, op, n2) : &c->any[n2];
+        /* the entries on the target's near side (series: a < t/c; parallel: a > t·c), and the boundary */
+        Py_ssize_t i0 = op == OP_SERIES ? start : full, i1 = op == OP_SERIES ? full : stop;
+        if (i1 - i0 > 1 && swapped_split(c, op, same, v + i0, i1 - i0, xt, r, res)) {
+            if (op == OP_SERIES) leaf_split(c, op, same, xmin, v, full, stop, xt, r, res);
+            else leaf_split(c, op, same, xmin, v, start, full, xt, r, res);
+        } else {
+            leaf_split(c, op, same, xmin, v, start, stop, xt, r, res);
+        }
+        return;
+    }
+    for (Py_ssize_t i = start; i < stop; i++) {
+        double a = v[i];
+        L = dmax(r.L, res->lo);
+        U = dmin(r.U, res->hi);
+        Row sub;
+        sub.bnd = a;
+        if (op == OP_SERIES) {
+            if (a + (same ? dmax(xmin, a) : xmin) > U) break; /* every later a lands higher still */
+            sub.t = r.t - a;
+            sub.L = L - a;
+            sub.U = U - a;
+        } else {
+            if (a * xmin / (a + xmin) > U) break; /* a ∥ x grows with a too */
+            sub.t = par_target(r.t, a);
+            sub.L = par_child(L, a, NEG);
+            sub.U = par_child(U, a, POS);
+        }
+        Bounds ch = family(c, op, n2, n1, sub);
+        if (isfinite(ch.lo)) res->lo = dmax(res->lo, join(op, a, ch.lo));
+        if (isfinite(ch.hi)) res->hi = dmin(res->hi, join(op, a, ch.hi));
+    }
+}
+
+/* floor and ceil over ⊕ nodes of n parts whose children all have at least m parts (exact.py _nodes) */
+static Bounds nodes(Ctx *c, int op, int n, int m, Row r) {
+    Bounds res = {NEG, POS};
+    for (int n1 = m; n1 <= n / 2; n1++) split(c, op, n, n1, m, r, &res);
+    return res;
+}
+
+/* ------------------------------------------------------------------ Python glue */
+
+typedef struct {
+    Py_buffer buf[3 * (MAX_LEVEL + 1)];
+    int held;
+} Buffers;
+
+static void release_all(Buffers *b) {
+    for (int i = 0; i < b->held; i++) PyBuffer_Release(&b->buf[i]);
+    b->held = 0;
+}
+
+static int get_doubles(PyObject *obj, Buffers *held, Py_buffer *view, const char *name, int writable) {
+    int flags = PyBUF_C_CONTIGUOUS | PyBUF_FORMAT | (writable ? PyBUF_WRITABLE : 0);
+    if (PyObject_GetBuffer(obj, view, flags) < 0) return -1;
+    if (view->itemsize != 8 || view->format == NULL || strcmp(view->format, "d") != 0) {
+        PyErr_Format(PyExc_TypeError, "%s: a contiguous float64 array is needed", name);
+        PyBuffer_Release(view);
+        return -1;
+    }
+    (void)held;
+    return 0;
+}
+
+PyDoc_STRVAR(bounds_doc,
+"bounds(tables, vmin, vmax, what, op, n, m, t, bnd, L, U, lo, hi, offset, stride) -> look-ups\n\n"
+"Floor and ceil, written into ``lo`` and ``hi``, for the rows offset, offset + stride, ...\n"
+"``tables``: for each level 1..h, the (ser, par, any) sorted float64 value arrays.\n"
+"``what`` 0: the family of x that may follow an op child of m parts (exact.py _family);\n"
+"1: op nodes of n parts whose children all have at least m parts (exact.py _nodes).\n"
+"Releases the GIL while it runs; returns the number of table look-ups made.");
+
+static PyObject *py_bounds(PyObject *self, PyObject *args) {
+    PyObject *tables, *ot, *obnd, *oL, *oU, *olo, *ohi;
+    double vmin, vmax;
+    int what, op, n, m;
+    Py_ssize_t offset, stride;
+    (void)self;
+    if (!PyArg_ParseTuple(args, "O!ddiiiiOOOOOOnn", &PyTuple_Type, &tables, &vmin, &vmax, &what, &op, &n, &m,
+                          &ot, &obnd, &oL, &oU, &olo, &ohi, &offset, &stride))
+        return NULL;
+    Py_ssize_t h = PyTuple_GET_SIZE(tables);
+    if (h < 1 || h > MAX_LEVEL || n < 1 || n > MAX_PARTS || m < 1 || m > n || stride < 1 || offset < 0 ||
+        (op != OP_SERIES && op != OP_PARALLEL) || (what != 0 && what != 1)) {
+        PyErr_SetString(PyExc_ValueError, "bounds: an argument is out of range");
+        return NULL;
+    }
+    Ctx *c = PyMem_Calloc(1, sizeof(Ctx));
+    Buffers *held = PyMem_Calloc(1, sizeof(Buffers));
+    Py_buffer rows[6];
+    int nrows_held = 0;
+    PyObject *result = NULL;
+    if (c == NULL || held == NULL) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    c->h = (int)h;
+    c->vmin = vmin;
+    c->vmax = vmax;
+    for (Py_ssize_t lv = 0; lv < h; lv++) {
+        PyObject *level = PyTuple_GET_ITEM(tables, lv);
+        if (!PyTuple_Check(level) || PyTuple_GET_SIZE(level) != 3) {
+            PyErr_SetString(PyExc_TypeError, "bounds: each level is a (ser, par, any) tuple");
+            goto done;
+        }
+        Tab *dest[3] = {&c->ser[lv + 1], &c->par[lv + 1], &c->any[lv + 1]};
+        for (int k = 0; k < 3; k++) {
+            Py_buffer *view = &held->buf[held->held];
+            if (get_doubles(PyTuple_GET_ITEM(level, k), held, view, "table", 0) < 0) goto done;
+            held->held++;
+            dest[k]->v = (const double *)view->buf;
+            dest[k]->n = view->len / 8;
+        }
+    }
+    PyObject *objs[6] = {ot, obnd, oL, oU, olo, ohi};
+    for (int k = 0; k < 6; k++) {
+        if (get_doubles(objs[k], held, &rows[k], "rows", k >= 4) < 0) goto done;
+        nrows_held++;
+    }
+    Py_ssize_t count = rows[0].len / 8;
+    for (int k = 1; k < 6; k++) {
+        if (rows[k].len / 8 != count) {
+            PyErr_SetString(PyExc_ValueError, "bounds: the row arrays differ in length");
+            goto done;
+        }
+    }
+    const double *t = rows[0].buf, *bnd = rows[1].buf, *L = rows[2].buf, *U = rows[3].buf;
+    double *lo = rows[4].buf, *hi = rows[5].buf;
+    Py_BEGIN_ALLOW_THREADS
+    for (Py_ssize_t i = offset; i < count; i += stride) {
+        Row r = {t[i], bnd[i], L[i], U[i]};
+        Bounds b = what == 0 ? family(c, op, n, m, r) : nodes(c, op, n, m, r);
+        lo[i] = b.lo;
+        hi[i] = b.hi;
+    }
+    Py_END_ALLOW_THREADS
+    result = PyLong_FromLongLong(c->looked);
+done:
+    for (int k = 0; k < nrows_held; k++) PyBuffer_Release(&rows[k]);
+    if (held) release_all(held);
+    PyMem_Free(held);
+    PyMem_Free(c);
+    return result;
+}
+
+static PyMethodDef methods[] = {
+    {"bounds", py_bounds, METH_VARARGS, bounds_doc},
+    {NULL, NULL, 0, NULL},
+};
+
+static struct PyModuleDef module = {
+    PyModuleDef_HEAD_INIT, "_kernel",
+    "The exact search's inner recursion, compiled (see netsynth.search.kernel).", -1, methods,
+};
+
+PyMODINIT_FUNC PyInit__kernel(void) { return PyModule_Create(&module); }

@@ -1,0 +1,140 @@
+"""The compiled recursion against the numpy engine it replaces, on bins too large for a brute force.
+
+The brute force in exact rationals (tests/test_search.py) checks both engines on small bins;
+here the two engines check each other where the compiled loop's own shortcuts (look-ups in
+blocks, galloping, pairs taken x-first, a window that narrows) actually fire: bins of tens of
+values, every table depth, targets inside and outside the bin's span, and windows.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from netsynth.eseries import series_values
+from netsynth.search import kernel
+from netsynth.search.exact import NEG, POS, ExactSearch, _Rows
+from netsynth.search.tables import OP_PARALLEL, OP_SERIES
+
+pytestmark = pytest.mark.skipif(not kernel.built(), reason="the compiled recursion was not built")
+
+#: the two engines compute a ⊕ x with the same expressions; taking a pair x-first may round the
+#: last bit of the partner target the other way, so a reported value may differ by an ulp or two
+ULPS = 8 * np.finfo(float).eps
+
+
+def engines(call):
+    """Run ``call`` under the compiled engine, then under numpy; return both results."""
+    before = os.environ.get("NETSYNTH_KERNEL")
+    try:
+        os.environ["NETSYNTH_KERNEL"] = "on"
+        compiled = call()
+        os.environ["NETSYNTH_KERNEL"] = "off"
+        plain = call()
+    finally:
+        if before is None:
+            os.environ.pop("NETSYNTH_KERNEL", None)
+        else:
+            os.environ["NETSYNTH_KERNEL"] = before
+    return compiled, plain
+
+
+def test_ci_builds_the_compiled_recursion():
+    # CI installs with a C compiler; a silent fallback to numpy there would hide a broken build
+    if os.environ.get("CI"):
+        assert kernel.built()
+
+
+def test_off_switch_turns_it_off(monkeypatch):
+    monkeypatch.setenv("NETSYNTH_KERNEL", "off")
+    assert not kernel.enabled()
+    monkeypatch.setenv("NETSYNTH_KERNEL", "on")
+    assert kernel.enabled()
+
+
+def _same(a: np.ndarray, b: np.ndarray) -> bool:
+    finite = np.isfinite(a) & np.isfinite(b)
+    close = np.abs(np.where(finite, a - b, 0.0)) <= ULPS * np.abs(np.where(finite, b, 0.0))
+    return bool(np.all((a == b) | (finite & close)))
+
+
+BINS = {
+    # IEC 60063:2015 E-series over a few decades, and a bin of round numbers with coincidences
+    "E12 10..10k": list(series_values("E12", 10, 1e4)),
+    "E24 1..1k": list(series_values("E24", 1, 1e3)),
+    "E6 1..1M": list(series_values("E6", 1, 1e6)),
+    "round": [1.0, 2.0, 3.0, 5.0, 10.0, 20.0, 50.0, 100.0],
+}
+
+
+FULL_CASES = [(name, k, depth) for name in sorted(BINS) for k, depth in [(4, 2), (5, 2), (5, 3), (6, 3)]
+              if not (k == 6 and len(BINS[name]) > 40)]  # 6 parts of 73 values: a minute in numpy
+
+
+@pytest.mark.parametrize("name, k, depth", FULL_CASES)
+def test_full_floor_and_ceil_agree(name, k, depth):
+    values = BINS[name]
+    search = ExactSearch(values, [None] * len(values), k, table_parts=depth)
+    rng = np.random.default_rng(k * 10 + depth)
+    count = 60 if k < 6 else 15
+    t = np.exp(rng.uniform(math.log(min(values) / (k + 1)), math.log(max(values) * (k + 1)), count))
+    t = np.concatenate([t, values[:3], [min(values) / k, max(values) * k]])  # exact hits and the span's ends
+    (clo, chi), (plo, phi) = engines(lambda: search.bounds(k, t))
+    assert _same(clo, plo) and _same(chi, phi)
+
+
+@settings(max_examples=40, deadline=None)
+@given(
+    values=st.lists(st.floats(1.0, 1e6).map(lambda v: float(f"{v:.3g}")), min_size=2, max_size=30, unique=True),
+    k=st.integers(3, 5),
+    deeper=st.booleans(),
+    target=st.floats(0.05, 5e6),
+    op=st.sampled_from([OP_SERIES, OP_PARALLEL]),
+    m=st.integers(1, 2),
+    width=st.sampled_from([0.0, 1e-9, 1e-4, 0.05, math.inf]),
+    bound=st.sampled_from(["none", "below", "above"]),
+)
+def test_families_agree_inside_any_window(values, k, deeper, target, op, m, width, bound):
+    # what the recursion returns for one family of x (the module docstring of netsynth.search.exact):
+    # wherever the true floor or ceil lies inside the window [L, U], both engines report it
+    values = sorted(values)
+    search = ExactSearch(values, [None] * len(values), k, table_parts=k // 2 + int(deeper))
+    engine = search.free
+    n = k
+    m = min(m, n)
+    none = NEG if op == OP_SERIES else POS  # a series bound is a lower one, a parallel bound an upper one
+    bnd = {"none": none, "below": target * 0.5, "above": target * 2.0}[bound]
+    lo_edge = target * (1 - width) if width < 1 else NEG
+    hi_edge = target * (1 + width) if math.isfinite(width) else POS
+    rows = _Rows(np.array([target]), np.array([bnd]), np.array([lo_edge]), np.array([hi_edge]), None)
+    open_rows = _Rows(rows.t, rows.bnd, np.array([NEG]), np.array([POS]), None)
+    (clo, chi), (plo, phi) = engines(lambda: engine._family(op, n, m, rows))
+    (_, _), (tlo, thi) = engines(lambda: engine._family(op, n, m, open_rows))  # the truth: no window
+    for got in (clo, plo):
+        if tlo[0] >= lo_edge:
+            assert _same(got, tlo)
+        else:
+            assert not got[0] > tlo[0] * (1 + ULPS), "a floor no network has"
+    for got in (chi, phi):
+        if thi[0] <= hi_edge:
+            assert _same(got, thi)
+        else:
+            assert not got[0] < thi[0] * (1 - ULPS), "a ceil no network has"
+
+
+@pytest.mark.parametrize("name", sorted(BINS))
+def test_best_networks_agree(name):
+    # the whole search: the best network of each size and its runners-up have the same values
+    values = BINS[name]
+    for target in (math.pi * 1000, 47.123, 0.9 * min(values), 3.3 * max(values)):
+        def rows():
+            search = ExactSearch(values, [None] * len(values), 5)
+            return [[round(f.value_ohms, 9) for f in search.best(n, target, alternatives=2)] for n in range(1, 6)]
+
+        compiled, plain = engines(rows)
+        assert [r[0] for r in compiled] == [r[0] for r in plain]
