@@ -138,3 +138,18 @@ def test_best_networks_agree(name):
 
         compiled, plain = engines(rows)
         assert [r[0] for r in compiled] == [r[0] for r in plain]
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.floats(1e-6, 1e12), min_size=300, max_size=2000, unique=True))
+def test_table_index_runs_hold_every_entry_of_their_key(values):
+    # the index of a table (kernel.table_spec): entry index[k] is the first whose leading bits are at
+    # least kmin + k, so numpy.searchsorted over the keys is the reference
+    values = np.sort(np.array(values))
+    _, index, kmin, shift = kernel.table_spec(values)
+    assert index is not None and index.dtype == np.int32
+    keys = values.view(np.int64) >> shift
+    assert kmin == keys[0] and len(index) == keys[-1] - kmin + 2
+    expected = np.searchsorted(keys, np.arange(kmin, keys[-1] + 2))
+    assert np.array_equal(index, expected)
+    assert np.all(np.diff(keys) >= 0), "leading bits grow with the value"

@@ -589,7 +589,7 @@ class _Engine:
     def _kernel(self, what: int, op: int, n: int, m: int, r: _Rows) -> tuple[np.ndarray, np.ndarray]:
         if self._kernel_tables is None:
             self._kernel_tables = tuple(
-                tuple(np.ascontiguousarray(t.values, dtype=np.float64) for t in (lv.ser, lv.par, lv.any))
+                tuple(kernel.table_spec(t.values) for t in (lv.ser, lv.par, lv.any))
                 for lv in (self.levels[i] for i in range(1, self.h + 1))
             )
         lo, hi, looked = kernel.bounds(self._kernel_tables, self.vmin, self.vmax, what, op, n, m,

@@ -49,11 +49,39 @@ def threads() -> int:
     return max(1, min(4, cores))
 
 
+#: tables shorter than this are bisected; an index pays from about here on
+INDEX_FROM = 256
+#: entries per run of equal leading bits the index aims at (see table_spec)
+RUN_ENTRIES = 4
+
+
+def table_spec(values: np.ndarray) -> tuple:
+    """(values, index, kmin, shift): a sorted table of positive ohms as :func:`bounds` takes it.
+
+    The index splits the table by each value's leading bits (its float64 bit pattern shifted right
+    by ``shift``: the exponent and the first mantissa bits, which grow with the value), so that a
+    look-up reads the index, then a run of about :data:`RUN_ENTRIES` entries, instead of bisecting
+    the whole table; ``index[k]`` is the first entry whose key is at least ``kmin + k``. None for
+    short tables.
+    """
+    values = np.ascontiguousarray(values, dtype=np.float64)
+    if len(values) < INDEX_FROM or not values[0] > 0:
+        return values, None, 0, 0
+    bits = values.view(np.int64)
+    exponents = int((bits[-1] >> 52) - (bits[0] >> 52)) + 1
+    mantissa_bits = max(0, min(30, int(np.log2(len(values) / (RUN_ENTRIES * exponents)))))
+    shift = 52 - mantissa_bits
+    keys = bits >> shift
+    kmin = int(keys[0])
+    index = np.searchsorted(keys, np.arange(kmin, int(keys[-1]) + 2, dtype=np.int64)).astype(np.int32)
+    return values, index, kmin, shift
+
+
 def bounds(tables: tuple, vmin: float, vmax: float, what: int, op: int, n: int, m: int,
            t: np.ndarray, bnd: np.ndarray, L: np.ndarray, U: np.ndarray) -> tuple[np.ndarray, np.ndarray, int]:
     """(floor, ceil, look-ups) per row; ``what`` 0 is :meth:`.exact._Engine._family`, 1 ``_nodes``.
 
-    ``tables``: for each level 1..h, the (ser, par, any) sorted value arrays (ohms).
+    ``tables``: for each level 1..h, the (ser, par, any) tables, each from :func:`table_spec`.
     """
     global _pool
     cols = [np.ascontiguousarray(a, dtype=np.float64) for a in (t, bnd, L, U)]
