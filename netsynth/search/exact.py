@@ -98,6 +98,12 @@ MAX_LOOKUPS_COMPILED = 4_000_000_000
 #: holds about twice that many entries over its three tables at 20 bytes each (measured: 5.25 M
 #: on 169 values take 210 MB), so 12 million stay under 500 MB.
 TABLE_BUDGET = 12_000_000
+#: the largest table level built at all (estimated ``any`` entries): measured 113 bytes per entry at
+#: the peak of building (5.25 M entries of 169 values: 596 MB), so about 1.4 GB; a search that needs
+#: a larger one is refused whatever its look-ups (:data:`TOO_LARGE`)
+TABLE_LIMIT = 12_000_000
+#: the look-ups :func:`plan` reports for a search whose tables would exceed :data:`TABLE_LIMIT`
+TOO_LARGE = 10**18
 #: a table level is cached on disk from this many estimated entries on; smaller ones build
 #: about as fast as a file opens (measured: 25 k entries in 2 ms, 395 k in 40 ms).
 CACHE_FROM = 500_000
@@ -171,7 +177,7 @@ def plan(values: int, max_parts: int) -> tuple[int, int]:
         if best is None or cost < best[2]:
             best = (h, work, cost)
     assert best is not None
-    return best[0], best[1] if estimated_sizes(values, best[0])[best[0]] <= 4 * TABLE_BUDGET else 10**18
+    return best[0], best[1] if estimated_sizes(values, best[0])[best[0]] <= TABLE_LIMIT else TOO_LARGE
 
 
 def _lookups(sizes: dict[int, int], h: int, n: int, rows: float) -> int:
@@ -230,9 +236,12 @@ class ExactSearch:
         budget = lookup_budget(self.limited)
         if work > budget:
             fits = max((n for n in range(1, max_parts) if plan(len(self.values), n)[1] <= budget), default=1)
+            need = (f"tables of about {estimated_sizes(len(self.values), self.h)[self.h] / 1e6:.0f} million "
+                    f"networks, too large to hold in memory" if work >= TOO_LARGE else
+                    f"about {work:.1e} table look-ups, too many to finish in reasonable time")
             raise InfeasibleError(
-                f"an exhaustive search for {max_parts} parts on a bin of {len(self.values)} values needs about "
-                f"{work:.1e} table look-ups, too many to finish in reasonable time; ask for at most "
+                f"an exhaustive search for {max_parts} parts on a bin of {len(self.values)} values needs "
+                f"{need}; ask for at most "
                 f"{fits} parts (--max-parts {fits}) or use a smaller bin"
             )
         if table_parts is not None:
