@@ -153,3 +153,19 @@ def test_table_index_runs_hold_every_entry_of_their_key(values):
     expected = np.searchsorted(keys, np.arange(kmin, keys[-1] + 2))
     assert np.array_equal(index, expected)
     assert np.all(np.diff(keys) >= 0), "leading bits grow with the value"
+
+
+def test_a_call_told_to_stop_does_no_work():
+    # Ctrl-C: kernel.bounds sets the stop flag the compiled loop reads before each row and each child
+    from netsynth.search import _kernel
+
+    values = BINS["E12 10..10k"]
+    search = ExactSearch(values, [None] * len(values), 6)
+    engine = search.free
+    engine._kernel(1, OP_SERIES, 6, 1, search._rows(np.array([3141.5926]), None))  # builds the tables
+    t = np.array([3141.5926, 47.0])
+    lo, hi = np.empty(2), np.empty(2)
+    args = (engine._kernel_tables, engine.vmin, engine.vmax, 1, OP_SERIES, 6, 1, t, np.full(2, NEG),
+            np.full(2, NEG), np.full(2, POS), lo, hi, 0, 1)
+    assert _kernel.bounds(*args, np.zeros(1, np.int32)) > 0
+    assert _kernel.bounds(*args, np.ones(1, np.int32)) == 0

@@ -45,6 +45,7 @@ typedef struct {
     int h;
     double vmin, vmax;
     long long looked;
+    volatile const int32_t *stop; /* set by the caller to end the call early (Ctrl-C) */
 } Ctx;
 
 typedef struct {
@@ -405,6 +406,7 @@ static void split(Ctx *c, int op, int n, int n1, int m, Row r, Bounds *res) {
         return;
     }
     for (Py_ssize_t i = start; i < stop; i++) {
+        if (*c->stop) return; /* the answer is thrown away */
         double a = v[i];
         L = dmax(r.L, res->lo);
         U = dmin(r.U, res->hi);
@@ -459,22 +461,23 @@ static int get_doubles(PyObject *obj, Buffers *held, Py_buffer *view, const char
 }
 
 PyDoc_STRVAR(bounds_doc,
-"bounds(tables, vmin, vmax, what, op, n, m, t, bnd, L, U, lo, hi, offset, stride) -> look-ups\n\n"
+"bounds(tables, vmin, vmax, what, op, n, m, t, bnd, L, U, lo, hi, offset, stride, stop) -> look-ups\n\n"
 "Floor and ceil, written into ``lo`` and ``hi``, for the rows offset, offset + stride, ...\n"
 "``tables``: for each level 1..h, the (ser, par, any) tables, each (values, index, kmin, shift):\n"
 "sorted float64 values and an int32 index by leading bits (or None; see tab_lower).\n"
 "``what`` 0: the family of x that may follow an op child of m parts (exact.py _family);\n"
 "1: op nodes of n parts whose children all have at least m parts (exact.py _nodes).\n"
-"Releases the GIL while it runs; returns the number of table look-ups made.");
+"``stop``: an int32 array; setting its first item from another thread ends the call soon (the\n"
+"results are then meaningless). Releases the GIL while it runs; returns the look-ups made.");
 
 static PyObject *py_bounds(PyObject *self, PyObject *args) {
-    PyObject *tables, *ot, *obnd, *oL, *oU, *olo, *ohi;
+    PyObject *tables, *ot, *obnd, *oL, *oU, *olo, *ohi, *ostop;
     double vmin, vmax;
     int what, op, n, m;
     Py_ssize_t offset, stride;
     (void)self;
-    if (!PyArg_ParseTuple(args, "O!ddiiiiOOOOOOnn", &PyTuple_Type, &tables, &vmin, &vmax, &what, &op, &n, &m,
-                          &ot, &obnd, &oL, &oU, &olo, &ohi, &offset, &stride))
+    if (!PyArg_ParseTuple(args, "O!ddiiiiOOOOOOnnO", &PyTuple_Type, &tables, &vmin, &vmax, &what, &op, &n, &m,
+                          &ot, &obnd, &oL, &oU, &olo, &ohi, &offset, &stride, &ostop))
         return NULL;
     Py_ssize_t h = PyTuple_GET_SIZE(tables);
     if (h < 1 || h > MAX_LEVEL || n < 1 || n > MAX_PARTS || m < 1 || m > n || stride < 1 || offset < 0 ||
@@ -484,13 +487,20 @@ static PyObject *py_bounds(PyObject *self, PyObject *args) {
     }
     Ctx *c = PyMem_Calloc(1, sizeof(Ctx));
     Buffers *held = PyMem_Calloc(1, sizeof(Buffers));
-    Py_buffer rows[6];
-    int nrows_held = 0;
+    Py_buffer rows[6], stopbuf;
+    int nrows_held = 0, stop_held = 0;
     PyObject *result = NULL;
     if (c == NULL || held == NULL) {
         PyErr_NoMemory();
         goto done;
     }
+    if (PyObject_GetBuffer(ostop, &stopbuf, PyBUF_C_CONTIGUOUS | PyBUF_FORMAT) < 0) goto done;
+    stop_held = 1;
+    if (stopbuf.itemsize != 4 || stopbuf.len < 4 || stopbuf.format == NULL || strcmp(stopbuf.format, "i") != 0) {
+        PyErr_SetString(PyExc_TypeError, "bounds: stop is an int32 array");
+        goto done;
+    }
+    c->stop = (volatile const int32_t *)stopbuf.buf;
     c->h = (int)h;
     c->vmin = vmin;
     c->vmax = vmax;
@@ -552,7 +562,7 @@ static PyObject *py_bounds(PyObject *self, PyObject *args) {
     const double *t = rows[0].buf, *bnd = rows[1].buf, *L = rows[2].buf, *U = rows[3].buf;
     double *lo = rows[4].buf, *hi = rows[5].buf;
     Py_BEGIN_ALLOW_THREADS
-    for (Py_ssize_t i = offset; i < count; i += stride) {
+    for (Py_ssize_t i = offset; i < count && !*c->stop; i += stride) {
         Row r = {t[i], bnd[i], L[i], U[i]};
         Bounds b = what == 0 ? family(c, op, n, m, r) : nodes(c, op, n, m, r);
         lo[i] = b.lo;
@@ -562,6 +572,7 @@ static PyObject *py_bounds(PyObject *self, PyObject *args) {
     result = PyLong_FromLongLong(c->looked);
 done:
     for (int k = 0; k < nrows_held; k++) PyBuffer_Release(&rows[k]);
+    if (stop_held) PyBuffer_Release(&stopbuf);
     if (held) release_all(held);
     PyMem_Free(held);
     PyMem_Free(c);

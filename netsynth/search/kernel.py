@@ -7,7 +7,8 @@ plus a window that narrows as each row's answer improves. Both give the same val
 compiled loop makes about 10–30 times fewer passes over memory for a look-up.
 
 Rows are shared out between threads (the module releases the GIL), interleaved so that
-rows with much and little work spread evenly.
+rows with much and little work spread evenly. The main thread only waits, so Ctrl-C reaches
+it at once; it then tells the threads to stop and passes the interrupt on.
 
 Set ``NETSYNTH_KERNEL=off`` to run the numpy engine instead (the tests compare the two).
 """
@@ -15,7 +16,7 @@ Set ``NETSYNTH_KERNEL=off`` to run the numpy engine instead (the tests compare t
 from __future__ import annotations
 
 import os
-from concurrent.futures import ThreadPoolExecutor
+from concurrent.futures import ThreadPoolExecutor, wait
 
 import numpy as np
 
@@ -89,11 +90,15 @@ def bounds(tables: tuple, vmin: float, vmax: float, what: int, op: int, n: int, 
     lo = np.empty(count)
     hi = np.empty(count)
     workers = threads() if count >= THREAD_FROM else 1
-    if workers == 1:
-        looked = _kernel.bounds(tables, vmin, vmax, what, op, n, m, *cols, lo, hi, 0, 1)
-        return lo, hi, looked
+    stop = np.zeros(1, dtype=np.int32)
     if _pool is None:
         _pool = ThreadPoolExecutor(max_workers=4, thread_name_prefix="netsynth-search")
-    jobs = [_pool.submit(_kernel.bounds, tables, vmin, vmax, what, op, n, m, *cols, lo, hi, k, workers)
+    # even one share runs on the pool: the main thread then waits where Ctrl-C reaches it
+    jobs = [_pool.submit(_kernel.bounds, tables, vmin, vmax, what, op, n, m, *cols, lo, hi, k, workers, stop)
             for k in range(workers)]
-    return lo, hi, sum(j.result() for j in jobs)
+    try:
+        return lo, hi, sum(j.result() for j in jobs)
+    except BaseException:  # Ctrl-C while waiting: tell the shares to stop, let them end, pass it on
+        stop[0] = 1
+        wait(jobs)
+        raise
