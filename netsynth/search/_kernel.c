@@ -238,10 +238,12 @@ static Bounds family(Ctx *c, int op, int n, int m, Row r) {
 }
 
 /*
- * A split whose x comes from a table: the same as family()'s lookup for each a in turn, but
- * BLOCK look-ups at a time, their binary searches advanced in step. A lone branchless binary
- * search waits on one load per step; BLOCK independent ones keep that many loads in flight.
- * A look-up reads no window, so batching them changes no answer.
+ * A split whose x comes from a table: the same as family()'s lookup for each a in turn, made
+ * BLOCK at a time. When the a's are about as many as the table's entries, each search gallops
+ * from the last answer; else each goes through the table's index (tab_lower), or, for a table
+ * without one, the BLOCK binary searches advance in step (a lone branchless search waits on one
+ * load per step; BLOCK independent ones keep that many loads in flight). A look-up reads no
+ * window, so batching them changes no answer.
  */
 #define BLOCK 16
 /* gallop when the a's are at least 1/NEAR_RATIO as many as the x table's entries */
