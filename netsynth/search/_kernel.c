@@ -61,33 +61,25 @@ static const double NEG = -HUGE_VAL, POS = HUGE_VAL;
 static inline double dmax(double a, double b) { return a > b ? a : b; }
 static inline double dmin(double a, double b) { return a < b ? a : b; }
 
-/* numpy.searchsorted(v, x, side="left"); NaN sorts last, as in numpy */
-static inline Py_ssize_t lower_bound(const double *v, Py_ssize_t n, double x) {
+/* how many entries precede x: below it (right = 0), or not above it (right = 1); branchless */
+static inline int precedes(double entry, double x, int right) { return right ? entry <= x : entry < x; }
+
+static inline Py_ssize_t bisect(const double *v, Py_ssize_t n, double x, int right) {
     if (n == 0) return 0;
-    if (x != x) return n;
+    if (x != x) return n; /* NaN sorts last, as in numpy */
     const double *base = v;
     Py_ssize_t len = n;
     while (len > 1) {
         Py_ssize_t half = len >> 1;
-        base = (base[half] < x) ? base + half : base;
+        base = precedes(base[half], x, right) ? base + half : base;
         len -= half;
     }
-    return (base - v) + (*base < x);
+    return (base - v) + precedes(*base, x, right);
 }
 
-/* numpy.searchsorted(v, x, side="right") */
-static inline Py_ssize_t upper_bound(const double *v, Py_ssize_t n, double x) {
-    if (n == 0) return 0;
-    if (x != x) return n;
-    const double *base = v;
-    Py_ssize_t len = n;
-    while (len > 1) {
-        Py_ssize_t half = len >> 1;
-        base = (base[half] <= x) ? base + half : base;
-        len -= half;
-    }
-    return (base - v) + (*base <= x);
-}
+/* numpy.searchsorted(v, x, side="left") and side="right" */
+static inline Py_ssize_t lower_bound(const double *v, Py_ssize_t n, double x) { return bisect(v, n, x, 0); }
+static inline Py_ssize_t upper_bound(const double *v, Py_ssize_t n, double x) { return bisect(v, n, x, 1); }
 
 /* lower_bound(v, n, x) found from a nearby index: exponential steps away from `hint`, then
  * bisection; about 2 log2(distance) probes, all near the last answer (cache-warm). */
