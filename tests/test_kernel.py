@@ -170,3 +170,33 @@ def test_a_call_told_to_stop_does_no_work():
             np.full(2, NEG), np.full(2, POS), lo, hi, 0, 1)
     assert _kernel.bounds(*args, np.zeros(1, np.int32)) > 0
     assert _kernel.bounds(*args, np.ones(1, np.int32)) == 0
+
+
+FORKED = r"""
+import multiprocessing as mp
+from netsynth.search.exact import ExactSearch
+
+VALUES = [10.0, 22.0, 33.0, 47.0, 68.0, 100.0, 150.0, 220.0, 330.0, 470.0, 680.0, 1000.0]
+
+def best(target):
+    search = ExactSearch(VALUES, [None] * len(VALUES), 6)
+    return search.bounds(6, [target] * 100)[0][0]  # 100 rows: shared between threads
+
+if __name__ == "__main__":
+    best(123.4)  # the parent's threads start
+    with mp.get_context("fork").Pool(2) as pool:
+        print(len(pool.map(best, [56.7, 890.1])))
+"""
+
+
+def test_a_forked_child_searches_with_threads_of_its_own(tmp_path):
+    # multiprocessing with fork copies the parent's pool without its threads; a child that used it
+    # would wait for ever (the timeout turns that into a failure)
+    import subprocess
+    import sys
+
+    script = tmp_path / "forked.py"
+    script.write_text(FORKED, encoding="utf-8")
+    env = {**os.environ, "NETSYNTH_KERNEL": "on", "NETSYNTH_CACHE": "off"}
+    out = subprocess.run([sys.executable, str(script)], capture_output=True, text=True, timeout=60, env=env)
+    assert out.returncode == 0 and out.stdout.strip() == "2", out.stderr[-500:]

@@ -28,7 +28,7 @@ except ImportError:  # built without a C compiler: the numpy engine does the wor
 #: rows from which a call is shared between threads; below it a thread costs more than it saves
 THREAD_FROM = 64
 
-_pool: ThreadPoolExecutor | None = None
+_pool: tuple[int, ThreadPoolExecutor] | None = None  # (the process that made it, the pool)
 
 
 def built() -> bool:
@@ -78,23 +78,29 @@ def table_spec(values: np.ndarray) -> tuple:
     return values, index, kmin, shift
 
 
+def _executor() -> ThreadPoolExecutor:
+    """The threads of this process; a forked child (multiprocessing) makes its own, since the
+    parent's threads do not exist in it and a pool that counts them would never run a job."""
+    global _pool
+    if _pool is None or _pool[0] != os.getpid():
+        _pool = (os.getpid(), ThreadPoolExecutor(max_workers=4, thread_name_prefix="netsynth-search"))
+    return _pool[1]
+
+
 def bounds(tables: tuple, vmin: float, vmax: float, what: int, op: int, n: int, m: int,
            t: np.ndarray, bnd: np.ndarray, L: np.ndarray, U: np.ndarray) -> tuple[np.ndarray, np.ndarray, int]:
     """(floor, ceil, look-ups) per row; ``what`` 0 is :meth:`.exact._Engine._family`, 1 ``_nodes``.
 
     ``tables``: for each level 1..h, the (ser, par, any) tables, each from :func:`table_spec`.
     """
-    global _pool
     cols = [np.ascontiguousarray(a, dtype=np.float64) for a in (t, bnd, L, U)]
     count = len(cols[0])
     lo = np.empty(count)
     hi = np.empty(count)
     workers = threads() if count >= THREAD_FROM else 1
     stop = np.zeros(1, dtype=np.int32)
-    if _pool is None:
-        _pool = ThreadPoolExecutor(max_workers=4, thread_name_prefix="netsynth-search")
     # even one share runs on the pool: the main thread then waits where Ctrl-C reaches it
-    jobs = [_pool.submit(_kernel.bounds, tables, vmin, vmax, what, op, n, m, *cols, lo, hi, k, workers, stop)
+    jobs = [_executor().submit(_kernel.bounds, tables, vmin, vmax, what, op, n, m, *cols, lo, hi, k, workers, stop)
             for k in range(workers)]
     try:
         return lo, hi, sum(j.result() for j in jobs)
