@@ -302,12 +302,7 @@ def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str, lin
     if not text:
         raise fail("value", "the value is blank; every row needs a resistance such as 4k7, "
                             "or a # at the start to make it a comment")
-    try:
-        ohms = values.parse_resistance(text)
-    except ValueParseError as e:
-        raise fail("value", str(e)) from None
-    if problem := _problem_ohms(ohms):
-        raise fail("value", f"'{limits.excerpt(text)}' reads as {ohms!r} ohms; {problem}")
+    ohms = _read_ohms(text, "value", fail)
     try:
         count = _parse_qty(row.get("qty", ""))
     except ValueParseError as e:
@@ -355,6 +350,17 @@ def _read_row(row: dict[str, str], extra: list[tuple[str, str]], where: str, lin
     )
 
 
+def _read_ohms(text: str, field: str, fail: Callable[[str, str], StockError]) -> float:
+    """The resistance in a cell, within the accepted range, or the row's error naming ``field``."""
+    try:
+        ohms = values.parse_resistance(text)
+    except ValueParseError as e:
+        raise fail(field, str(e)) from None
+    if problem := _problem_ohms(ohms):
+        raise fail(field, f"'{limits.excerpt(text)}' reads as {ohms!r} ohms; {problem}")
+    return ohms
+
+
 def _read_measured(row: dict[str, str], fail: Callable[[str, str], StockError]) -> tuple[float, float] | None:
     """(measured ohms, uncertainty) of a row with a ``measured`` cell, else None."""
     text, unc = row.get("measured", ""), row.get("uncertainty", "")
@@ -363,12 +369,7 @@ def _read_measured(row: dict[str, str], fail: Callable[[str, str], StockError]) 
             raise fail("uncertainty", "an uncertainty belongs to a measured value; fill in 'measured' or "
                                       "clear the cell")
         return None
-    try:
-        ohms = values.parse_resistance(text)
-    except ValueParseError as e:
-        raise fail("measured", str(e)) from None
-    if problem := _problem_ohms(ohms):
-        raise fail("measured", f"{text!r} reads as {ohms!r} ohms; {problem}")
+    ohms = _read_ohms(text, "measured", fail)
     if not unc:
         raise fail("uncertainty", "a measured value needs its measurement uncertainty, such as 0.01% or 50ppm")
     try:
