@@ -324,3 +324,14 @@ def test_pick_ranks_by_preference(prefer, within, parts):
 
     rows = (_row(1, 0.05, 1.0), _row(3, 0.004, 1.5), _row(5, 0.0005, 3.0), _row(9, 1e-7, 2.0))
     assert pick(rows, prefer, within).parts == parts
+
+
+def test_a_witness_is_ranked_by_the_value_its_tree_computes():
+    # a candidate reported at 100 Ω whose witness computes to 100 + 10 = 110 Ω (hand arithmetic)
+    # is ranked at 110 Ω, behind a right one at 104 Ω
+    from netsynth.network import Part, series
+    from netsynth.search.exact import _ranked
+
+    cands = [(100.0, lambda: series(Part(100.0), Part(10.0))), (104.0, lambda: series(Part(100.0), Part(4.0)))]
+    found = _ranked(cands, 100.0, 2, alternatives=1)
+    assert [(f.value_ohms, round(f.error, 12)) for f in found] == [(104.0, 0.04), (110.0, 0.1)]

@@ -57,6 +57,8 @@ typedef struct {
 } Bounds;
 
 static const double NEG = -HUGE_VAL, POS = HUGE_VAL;
+/* windows widen by this much where they pass to a child or meet a join (exact.py WINDOW_SLACK) */
+static const double SLACK = 1e-12;
 
 static inline double dmax(double a, double b) { return a > b ? a : b; }
 static inline double dmin(double a, double b) { return a < b ? a : b; }
@@ -153,10 +155,11 @@ static inline double join(int op, double a, double x) {
     return (a * x) / (a + x);
 }
 
-/* the x at which a ∥ x equals edge; `none` where no x does (exact.py _par_child) */
-static inline double par_child(double edge, double a, double none) {
+/* the x at which a ∥ x equals edge, the edge widened by SLACK of its conductance (widen +1 for a
+ * lower edge, -1 for an upper one); `none` where no x does (exact.py _par_child) */
+static inline double par_child(double edge, double a, double none, int widen) {
     if (!(isfinite(edge) && edge > 0)) return none;
-    double g = 1.0 / edge - 1.0 / a;
+    double g = 1.0 / edge - 1.0 / a + widen * SLACK / edge;
     return g > 0 ? 1.0 / g : POS;
 }
 
@@ -257,7 +260,7 @@ static void leaf_split(Ctx *c, int op, int same, double xmin, const double *v, P
             double a = v[i + k];
             /* as in split(): x of the same size is not below a (series); the least x else is xmin */
             double least = op == OP_SERIES ? a + (same ? dmax(xmin, a) : xmin) : a * xmin / (a + xmin);
-            if (least > U) {
+            if (least > U + SLACK * fabs(U)) {
                 done = 1;
                 break;
             }
@@ -326,11 +329,11 @@ static int swapped_split(Ctx *c, int op, int same, const double *as, Py_ssize_t 
     double first = as[0], last = as[n - 1];
     Py_ssize_t x0, x1;
     if (op == OP_SERIES) {
-        x0 = tab_lower(xt, same ? dmax(L - last, first) : L - last);
-        x1 = tab_upper(xt, U - first);
+        x0 = tab_lower(xt, same ? dmax(L - last - SLACK * fabs(L), first) : L - last - SLACK * fabs(L));
+        x1 = tab_upper(xt, U - first + SLACK * fabs(U));
     } else {
-        x0 = tab_lower(xt, par_child(L, last, NEG));
-        double top = par_child(U, first, POS);
+        x0 = tab_lower(xt, par_child(L, last, NEG, +1));
+        double top = par_child(U, first, POS, -1);
         x1 = tab_upper(xt, same ? dmin(top, last) : top);
     }
     if (x1 - x0 < 0) x1 = x0;
@@ -367,16 +370,16 @@ static void split(Ctx *c, int op, int n, int n1, int m, Row r, Bounds *res) {
     double L = dmax(r.L, res->lo), U = dmin(r.U, res->hi);
     Py_ssize_t start, stop, full;
     if (op == OP_SERIES) {
-        double low = L - xmax;
+        double low = L - xmax - SLACK * fabs(L);
         if (bounded) low = dmax(low, r.bnd);
         start = tab_lower(tb, low);
         full = tab_lower(tb, r.t / cc);
         if (full < start) full = start;
         Py_ssize_t b = full < size - 1 ? full : size - 1;
         double least = v[b] + dmax(xmin, same ? v[b] : 0.0);
-        stop = full + ((full < size) && (least <= U));
+        stop = full + ((full < size) && (least <= U + SLACK * fabs(U)));
     } else {
-        double g = 1.0 / U - 1.0 / xmin;
+        double g = 1.0 / U - 1.0 / xmin - SLACK / U;
         double high = g > 0 ? 1.0 / g : POS;
         if (bounded) high = dmin(high, r.bnd);
         stop = tab_upper(tb, high);
@@ -385,7 +388,7 @@ static void split(Ctx *c, int op, int n, int n1, int m, Row r, Bounds *res) {
         Py_ssize_t b = full - 1 > 0 ? full - 1 : 0;
         double x = same ? dmin(xmax, v[b]) : xmax;
         double most = v[b] * x / (v[b] + x);
-        start = full - ((full > 0) && (most >= L));
+        start = full - ((full > 0) && (most >= L - SLACK * fabs(L)));
     }
     if (n2 <= c->h) {
         const Tab *xt = (2 * n1 > n2) ? non(c, op, n2) : &c->any[n2];
@@ -407,15 +410,15 @@ static void split(Ctx *c, int op, int n, int n1, int m, Row r, Bounds *res) {
         Row sub;
         sub.bnd = a;
         if (op == OP_SERIES) {
-            if (a + (same ? dmax(xmin, a) : xmin) > U) break; /* every later a lands higher still */
+            if (a + (same ? dmax(xmin, a) : xmin) > U + SLACK * fabs(U)) break; /* later a land higher still */
             sub.t = r.t - a;
-            sub.L = L - a;
-            sub.U = U - a;
+            sub.L = L - a - SLACK * fabs(L);
+            sub.U = U - a + SLACK * fabs(U);
         } else {
-            if (a * xmin / (a + xmin) > U) break; /* a ∥ x grows with a too */
+            if (a * xmin / (a + xmin) > U + SLACK * fabs(U)) break; /* a ∥ x grows with a too */
             sub.t = par_target(r.t, a);
-            sub.L = par_child(L, a, NEG);
-            sub.U = par_child(U, a, POS);
+            sub.L = par_child(L, a, NEG, +1);
+            sub.U = par_child(U, a, POS, -1);
         }
         Bounds ch = family(c, op, n2, n1, sub);
         if (isfinite(ch.lo)) res->lo = dmax(res->lo, join(op, a, ch.lo));

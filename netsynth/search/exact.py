@@ -59,6 +59,7 @@ the same function).
 
 from __future__ import annotations
 
+import heapq
 import math
 from collections import Counter
 from collections.abc import Callable, Iterator
@@ -116,6 +117,14 @@ KEEP_PER_SPLIT = 32
 #: witnesses built while looking for a realisation of the best value within the stock.
 STOCK_TRIES = 16
 
+#: windows are widened by this much (relative to their edges) wherever they are carried to a child
+#: or compared with a join: a window's edge moved to a child's by float arithmetic may round inwards
+#: by a few ulps (more where 1/edge - 1/a cancels), and must not cut off a network that lands on
+#: the edge itself. A wider window only prunes a little less, never wrongly.
+WINDOW_SLACK = 1e-12
+#: a witness whose tree computes to a value this far (relative) from the one the search reported
+#: is ranked by its own value (see :func:`_ranked`); float noise of one value is far below it
+WITNESS_RTOL = 1e-9
 #: a relative error this small is an exact hit (a few units in the last place of float arithmetic)
 EXACT = 1e-15
 
@@ -410,18 +419,31 @@ def _replace_one(net: Network, ohms: float, by: Network) -> Network:
 
 
 def _ranked(cands, target: float, n: int, alternatives: int) -> list[Found]:
-    """The best ``alternatives`` + 1 candidates of distinct values, nearest first."""
-    cands = sorted(cands, key=lambda c: abs(c[0] / target - 1.0))
+    """The best ``alternatives`` + 1 candidates of distinct values, nearest first.
+
+    Each network is built and its value computed from the tree; that value, not the one the
+    search reported, is what is ranked and returned. The two differ only where a network lands on
+    the target to the last bit: the search may then have seen it from one side (a ⊕ x ≤ t) and its
+    witness, whose partner target rounds the other way, from the other, and build a neighbour.
+    """
+    pending = [(abs(v / target - 1.0), i, v, make, False) for i, (v, make) in enumerate(cands)]
+    heapq.heapify(pending)
     out: list[Found] = []
     seen: list[float] = []
-    for value, make in cands:
+    while pending and len(out) <= alternatives:
+        _, i, value, make, built = heapq.heappop(pending)
         if any(abs(value - s) <= SAME_VALUE_RTOL * value for s in seen):
             continue
-        seen.append(value)
+        if not built:
+            net = make()
+            real = resistance(net)
+            if abs(real - value) > WITNESS_RTOL * value:  # rank it where it really lands
+                heapq.heappush(pending, (abs(real / target - 1.0), i, real, lambda net=net: net, True))
+                continue
+            make = lambda net=net: net  # noqa: E731
         net = make()
+        seen.append(value)
         out.append(Found(net, value, value / target - 1.0, n))
-        if len(out) > alternatives:
-            break
     return out
 
 
@@ -623,17 +645,17 @@ class _Engine:
         bounded = n1 == m
         xmin, xmax = self.vmin / n2, self.vmax * n2
         if op == OP_SERIES:
-            low = r.L - xmax
+            low = r.L - xmax - WINDOW_SLACK * np.abs(r.L)
             if bounded:
                 low = np.maximum(low, r.bnd)
             start = np.searchsorted(vals, low, side="left")
             full = np.maximum(np.searchsorted(vals, r.t / c, side="left"), start)
             b = np.minimum(full, size - 1)
             least = vals[b] + np.maximum(xmin, vals[b] if same else 0.0)
-            stop = full + ((full < size) & (least <= r.U))
+            stop = full + ((full < size) & (least <= r.U + WINDOW_SLACK * np.abs(r.U)))
         else:
             with np.errstate(divide="ignore"):
-                g = 1.0 / r.U - 1.0 / xmin
+                g = 1.0 / r.U - 1.0 / xmin - WINDOW_SLACK / r.U
                 high = np.where(g > 0, 1.0 / np.where(g > 0, g, 1.0), POS)
             if bounded:
                 high = np.minimum(high, r.bnd)
@@ -641,7 +663,7 @@ class _Engine:
             full = np.minimum(np.searchsorted(vals, r.t * c, side="right"), stop)
             b = np.maximum(full - 1, 0)
             most = _par(vals[b], np.minimum(xmax, vals[b]) if same else xmax)
-            start = full - ((full > 0) & (most >= r.L))
+            start = full - ((full > 0) & (most >= r.L - WINDOW_SLACK * np.abs(r.L)))
         yield from self._expand(op, n1, n2, table, r, start, stop)
         if self.limits is None:
             return
@@ -685,9 +707,9 @@ class _Engine:
             t = r.t[rows]
             L, U = r.L[rows], r.U[rows]
             if op == OP_SERIES:
-                sub = _Rows(t - a, a, L - a, U - a, sub_used)
+                sub = _Rows(t - a, a, L - a - WINDOW_SLACK * np.abs(L), U - a + WINDOW_SLACK * np.abs(U), sub_used)
             else:
-                sub = _Rows(_child_target(op, t, a), a, _par_child(L, a, NEG), _par_child(U, a, POS), sub_used)
+                sub = _Rows(_child_target(op, t, a), a, _par_child(L, a, NEG, +1), _par_child(U, a, POS, -1), sub_used)
             clo, chi = self._family(op, n2, n1, sub)
             yield rows, idx, a, clo, chi, sub
 
@@ -857,10 +879,15 @@ def _par(a, x):
     return a * x / (a + x)
 
 
-def _par_child(edge: np.ndarray, a: np.ndarray, none: float) -> np.ndarray:
-    """The x at which a ∥ x equals ``edge`` (the window's edge for x); ``none`` where no x does."""
+def _par_child(edge: np.ndarray, a: np.ndarray, none: float, widen: int) -> np.ndarray:
+    """The x at which a ∥ x equals ``edge`` (the window's edge for x); ``none`` where no x does.
+
+    ``widen`` +1 moves a lower edge down, -1 an upper edge up, by :data:`WINDOW_SLACK` of the
+    edge's conductance: 1/edge - 1/a cancels when a is near the edge, and a rounding there must not
+    cut off an x that lands on the edge.
+    """
     with np.errstate(divide="ignore", invalid="ignore"):
-        g = 1.0 / edge - 1.0 / a
+        g = 1.0 / edge - 1.0 / a + widen * WINDOW_SLACK / edge
         out = np.where(g > 0, 1.0 / np.where(g > 0, g, 1.0), POS)
     return np.where(np.isfinite(edge) & (edge > 0), out, none)
 
