@@ -117,21 +117,24 @@ def test_full_floor_and_ceil_agree(name, k, depth):
     m=st.integers(1, 2),
     width=st.sampled_from([0.0, 1e-9, 1e-4, 0.05, math.inf]),
     bound=st.sampled_from(["none", "below", "above"]),
+    stock=st.sampled_from([None, 1, 2]),
 )
-def test_families_agree_inside_any_window(values, k, deeper, target, op, m, width, bound):
+def test_families_agree_inside_any_window(values, k, deeper, target, op, m, width, bound, stock):
     # what the recursion returns for one family of x (the module docstring of netsynth.search.exact):
-    # wherever the true floor or ceil lies inside the window [L, U], both engines report it
+    # wherever the true floor or ceil lies inside the window [L, U], both engines report it;
+    # with a stock of 1 or 2 of each value, the limited engine (rows carry the parts taken)
     values = sorted(values)
-    search = ExactSearch(values, [None] * len(values), k, table_parts=k // 2 + int(deeper))
-    engine = search.free
+    search = ExactSearch(values, [stock] * len(values), k, table_parts=k // 2 + int(deeper))
+    engine = search.bound if search.limited else search.free
+    used = np.empty((1, 0), np.int16) if search.limited else None
     n = k
     m = min(m, n)
     none = NEG if op == OP_SERIES else POS  # a series bound is a lower one, a parallel bound an upper one
     bnd = {"none": none, "below": target * 0.5, "above": target * 2.0}[bound]
     lo_edge = target * (1 - width) if width < 1 else NEG
     hi_edge = target * (1 + width) if math.isfinite(width) else POS
-    rows = _Rows(np.array([target]), np.array([bnd]), np.array([lo_edge]), np.array([hi_edge]), None)
-    open_rows = _Rows(rows.t, rows.bnd, np.array([NEG]), np.array([POS]), None)
+    rows = _Rows(np.array([target]), np.array([bnd]), np.array([lo_edge]), np.array([hi_edge]), used)
+    open_rows = _Rows(rows.t, rows.bnd, np.array([NEG]), np.array([POS]), used)
     (clo, chi), (plo, phi) = engines(lambda: engine._family(op, n, m, rows))
     (_, _), (tlo, thi) = engines(lambda: engine._family(op, n, m, open_rows))  # the truth: no window
     for lo, hi in ((clo, chi), (plo, phi)):
@@ -146,6 +149,28 @@ def test_families_agree_inside_any_window(values, k, deeper, target, op, m, widt
             assert _same(hi, thi)
         else:
             assert not hi[0] < thi[0] * (1 - ULPS), "a ceil no network has"
+
+
+LIMITED_CASES = [(name, counts, k, depth) for name in ("E12 10..10k", "E6 1..1M", "round")
+                 for counts in ("one", "one or two") for k, depth in [(4, 2), (5, 2), (5, 3)]]
+
+
+@pytest.mark.parametrize("name, counts, k, depth", LIMITED_CASES)
+def test_limited_bins_agree(name, counts, k, depth):
+    # a drawer with one (or one or two) of each value: every row carries the parts it has taken,
+    # and both engines must keep within the stock and still find the same floor and ceil
+    values = BINS[name]
+    stock = [1] * len(values) if counts == "one" else [1 + i % 2 for i in range(len(values))]
+    search = ExactSearch(values, stock, k, table_parts=depth)
+    assert search.limited
+    rng = np.random.default_rng(k * 10 + depth + len(counts))
+    t = np.exp(rng.uniform(math.log(min(values) / (k + 1)), math.log(max(values) * (k + 1)), 25))
+    t = np.concatenate([t, [2 * values[1], 3 * values[2]]])  # exact only with more parts than the bin holds
+    (clo, chi), (plo, phi) = engines(lambda: search.bounds(k, t))
+    assert _agree(clo, chi, plo, phi, t)
+    for target in t[:4]:
+        compiled, plain = engines(lambda: [round(f.value_ohms, 9) for f in search.best(k, float(target), 2)])
+        assert compiled[:1] == plain[:1]
 
 
 def test_a_network_on_the_target_is_found_from_either_side():
@@ -177,7 +202,7 @@ def test_table_index_runs_hold_every_entry_of_their_key(values):
     # the index of a table (kernel.table_spec): entry index[k] is the first whose leading bits are at
     # least kmin + k, so numpy.searchsorted over the keys is the reference
     values = np.sort(np.array(values))
-    _, index, kmin, shift = kernel.table_spec(values)
+    _, index, kmin, shift, _ = kernel.table_spec(values)
     assert index is not None and index.dtype == np.int32
     keys = values.view(np.int64) >> shift
     assert kmin == keys[0] and len(index) == keys[-1] - kmin + 2
@@ -198,8 +223,8 @@ def test_a_call_told_to_stop_does_no_work():
     lo, hi = np.empty(2), np.empty(2)
     args = (engine._kernel_tables, engine.vmin, engine.vmax, 1, OP_SERIES, 6, 1, t, np.full(2, NEG),
             np.full(2, NEG), np.full(2, POS), lo, hi, 0, 1)
-    assert _kernel.bounds(*args, np.zeros(1, np.int32)) > 0
-    assert _kernel.bounds(*args, np.ones(1, np.int32)) == 0
+    assert _kernel.bounds(*args, np.zeros(1, np.int32), None, None) > 0
+    assert _kernel.bounds(*args, np.ones(1, np.int32), None, None) == 0
 
 
 FORKED = r"""

@@ -38,6 +38,9 @@ typedef struct {
     const int32_t *idx;
     long long kmin;
     int shift;
+    /* limited bins: the bin-value indices of each entry's parts, `width` per entry (else NULL) */
+    const int16_t *parts;
+    int width;
 } Tab;
 
 typedef struct {
@@ -46,10 +49,13 @@ typedef struct {
     double vmin, vmax;
     long long looked;
     volatile const int32_t *stop; /* set by the caller to end the call early (Ctrl-C) */
+    const int64_t *limits;        /* limited bins: how many of each bin value there are (else NULL) */
 } Ctx;
 
 typedef struct {
     double t, bnd, L, U;
+    const int16_t *used; /* limited bins: the bin values the row's ancestors took */
+    int nused;
 } Row;
 
 typedef struct {
@@ -180,6 +186,31 @@ static inline Bounds bound_filter(int op, Row r, Bounds b) {
     return b;
 }
 
+/* may entry i of tb be taken beside the row's used parts? (tables.py compatible) */
+static int fits(const Ctx *c, const Tab *tb, Py_ssize_t i, const Row *r) {
+    const int16_t *p = tb->parts + i * tb->width;
+    for (int j = 0; j < tb->width; j++) {
+        int16_t v = p[j];
+        if (v < 0) continue;
+        long long taken = 0;
+        for (int k = 0; k < tb->width; k++) taken += p[k] == v;
+        for (int k = 0; k < r->nused; k++) taken += r->used[k] == v;
+        if (taken > c->limits[v]) return 0;
+    }
+    return 1;
+}
+
+/* step i in direction `step` to the first entry that fits; give up (off the table) once the
+ * value passes `stop_at`, beyond which no entry matters (exact.py _scan) */
+static Py_ssize_t scan(const Ctx *c, const Tab *tb, Py_ssize_t i, int step, double stop_at, const Row *r) {
+    while (i >= 0 && i < tb->n && !fits(c, tb, i, r)) {
+        i += step;
+        if (i < 0 || i >= tb->n) break;
+        if (step < 0 ? tb->v[i] < stop_at : tb->v[i] > stop_at) return step < 0 ? -1 : tb->n;
+    }
+    return i;
+}
+
 static Bounds lookup(Ctx *c, const Tab *tb, int op, Row r, int bounded) {
     Bounds out = {NEG, POS};
     c->looked++;
@@ -197,6 +228,12 @@ static Bounds lookup(Ctx *c, const Tab *tb, int op, Row r, int bounded) {
         ilo = (ihi < size && v[ihi] == tf) ? ihi : ihi - 1;
     else
         ilo = tab_upper(tb, tf) - 1;
+    if (c->limits != NULL) {
+        double lo_stop = bounded && op == OP_SERIES ? dmax(r.L, r.bnd) : r.L;
+        double hi_stop = bounded && op == OP_PARALLEL ? dmin(r.U, r.bnd) : r.U;
+        ilo = scan(c, tb, ilo, -1, lo_stop - SLACK * fabs(lo_stop), &r);
+        ihi = scan(c, tb, ihi, +1, hi_stop + SLACK * fabs(hi_stop), &r);
+    }
     if (ilo >= 0) out.lo = v[ilo];
     if (ihi < size) out.hi = v[ihi];
     if (bounded) out = bound_filter(op, r, out);
@@ -356,6 +393,69 @@ static int swapped_split(Ctx *c, int op, int same, const double *as, Py_ssize_t 
     return 1;
 }
 
+static Bounds family(Ctx *c, int op, int n, int m, Row r);
+
+/* one child a of a limited split: a ⊕ (the family of x beside a's parts), folded into res */
+static void limited_child(Ctx *c, int op, int n2, int n1, const Tab *tb, Py_ssize_t i, Row r, Bounds *res) {
+    int16_t used[MAX_PARTS];
+    double a = tb->v[i];
+    double L = dmax(r.L, res->lo), U = dmin(r.U, res->hi);
+    if (r.nused + tb->width > MAX_PARTS || !fits(c, tb, i, &r)) return;
+    memcpy(used, r.used, sizeof(int16_t) * (size_t)r.nused);
+    memcpy(used + r.nused, tb->parts + i * tb->width, sizeof(int16_t) * (size_t)tb->width);
+    Row sub;
+    sub.bnd = a;
+    sub.used = used;
+    sub.nused = r.nused + tb->width;
+    if (op == OP_SERIES) {
+        sub.t = r.t - a;
+        sub.L = L - a - SLACK * fabs(L);
+        sub.U = U - a + SLACK * fabs(U);
+    } else {
+        sub.t = par_target(r.t, a);
+        sub.L = par_child(L, a, NEG, +1);
+        sub.U = par_child(U, a, POS, -1);
+    }
+    Bounds ch = family(c, op, n2, n1, sub);
+    if (isfinite(ch.lo)) res->lo = dmax(res->lo, join(op, a, ch.lo));
+    if (isfinite(ch.hi)) res->hi = dmin(res->hi, join(op, a, ch.hi));
+}
+
+/*
+ * A split on a limited bin (exact.py "Stock limits"). The boundary argument does not hold here
+ * (which x may follow a depends on the parts a takes), so instead of one boundary entry every a
+ * beyond it is visited while a ⊕ x could still land in the narrowing window: series a ascending
+ * until a + (least x) passes above it; parallel a descending below the boundary until
+ * a ∥ (largest x) falls below it. Each a must fit beside the row's parts; so must each x (scan).
+ */
+static void limited_split(Ctx *c, int op, int n2, int n1, int same, double xmin, double xmax, const Tab *tb,
+                          Py_ssize_t start, Py_ssize_t stop, Py_ssize_t full, Row r, Bounds *res) {
+    const double *v = tb->v;
+    if (op == OP_SERIES) {
+        for (Py_ssize_t i = start; i < tb->n; i++) {
+            if (*c->stop) return;
+            double a = v[i], U = dmin(r.U, res->hi);
+            if (a + (same ? dmax(xmin, a) : xmin) > U + SLACK * fabs(U)) break;
+            limited_child(c, op, n2, n1, tb, i, r, res);
+        }
+    } else {
+        for (Py_ssize_t i = full; i < stop; i++) {
+            if (*c->stop) return;
+            double a = v[i], U = dmin(r.U, res->hi);
+            if (a * xmin / (a + xmin) > U + SLACK * fabs(U)) break;
+            limited_child(c, op, n2, n1, tb, i, r, res);
+        }
+        for (Py_ssize_t i = full - 1; i >= 0; i--) {
+            if (*c->stop) return;
+            double a = v[i], L = dmax(r.L, res->lo);
+            double x = same ? dmin(xmax, a) : xmax;
+            if (a * x / (a + x) < L - SLACK * fabs(L)) break; /* smaller a land lower still */
+            limited_child(c, op, n2, n1, tb, i, r, res);
+        }
+    }
+    (void)stop;
+}
+
 /* fold the ⊕ nodes of one split (a of n1 parts, x of n − n1) into res (exact.py _split) */
 static void split(Ctx *c, int op, int n, int n1, int m, Row r, Bounds *res) {
     int n2 = n - n1;
@@ -389,6 +489,10 @@ static void split(Ctx *c, int op, int n, int n1, int m, Row r, Bounds *res) {
         double x = same ? dmin(xmax, v[b]) : xmax;
         double most = v[b] * x / (v[b] + x);
         start = full - ((full > 0) && (most >= L - SLACK * fabs(L)));
+    }
+    if (c->limits != NULL) {
+        limited_split(c, op, n2, n1, same, xmin, xmax, tb, start, stop, full, r, res);
+        return;
     }
     if (n2 <= c->h) {
         const Tab *xt = (2 * n1 > n2) ? non(c, op, n2) : &c->any[n2];
@@ -436,7 +540,7 @@ static Bounds nodes(Ctx *c, int op, int n, int m, Row r) {
 /* ------------------------------------------------------------------ Python glue */
 
 typedef struct {
-    Py_buffer buf[6 * (MAX_LEVEL + 1)];
+    Py_buffer buf[9 * (MAX_LEVEL + 1)];
     int held;
 } Buffers;
 
@@ -458,23 +562,26 @@ static int get_doubles(PyObject *obj, Buffers *held, Py_buffer *view, const char
 }
 
 PyDoc_STRVAR(bounds_doc,
-"bounds(tables, vmin, vmax, what, op, n, m, t, bnd, L, U, lo, hi, offset, stride, stop) -> look-ups\n\n"
+"bounds(tables, vmin, vmax, what, op, n, m, t, bnd, L, U, lo, hi, offset, stride, stop, limits, used)\n\n"
 "Floor and ceil, written into ``lo`` and ``hi``, for the rows offset, offset + stride, ...\n"
-"``tables``: for each level 1..h, the (ser, par, any) tables, each (values, index, kmin, shift):\n"
-"sorted float64 values and an int32 index by leading bits (or None; see tab_lower).\n"
+"``tables``: for each level 1..h, the (ser, par, any) tables, each (values, index, kmin, shift,\n"
+"parts): sorted float64 values, an int32 index by leading bits (or None; see tab_lower), and\n"
+"for a limited bin the int16 bin-value indices of each entry's parts (or None).\n"
+"``limits`` (int64 per bin value) and ``used`` (int16, one row per query row) for a limited bin,\n"
+"else None and None.\n"
 "``what`` 0: the family of x that may follow an op child of m parts (exact.py _family);\n"
 "1: op nodes of n parts whose children all have at least m parts (exact.py _nodes).\n"
 "``stop``: an int32 array; setting its first item from another thread ends the call soon (the\n"
 "results are then meaningless). Releases the GIL while it runs; returns the look-ups made.");
 
 static PyObject *py_bounds(PyObject *self, PyObject *args) {
-    PyObject *tables, *ot, *obnd, *oL, *oU, *olo, *ohi, *ostop;
+    PyObject *tables, *ot, *obnd, *oL, *oU, *olo, *ohi, *ostop, *olimits, *oused;
     double vmin, vmax;
     int what, op, n, m;
     Py_ssize_t offset, stride;
     (void)self;
-    if (!PyArg_ParseTuple(args, "O!ddiiiiOOOOOOnnO", &PyTuple_Type, &tables, &vmin, &vmax, &what, &op, &n, &m,
-                          &ot, &obnd, &oL, &oU, &olo, &ohi, &offset, &stride, &ostop))
+    if (!PyArg_ParseTuple(args, "O!ddiiiiOOOOOOnnOOO", &PyTuple_Type, &tables, &vmin, &vmax, &what, &op, &n, &m,
+                          &ot, &obnd, &oL, &oU, &olo, &ohi, &offset, &stride, &ostop, &olimits, &oused))
         return NULL;
     Py_ssize_t h = PyTuple_GET_SIZE(tables);
     if (h < 1 || h > MAX_LEVEL || n < 1 || n > MAX_PARTS || m < 1 || m > n || stride < 1 || offset < 0 ||
@@ -484,8 +591,10 @@ static PyObject *py_bounds(PyObject *self, PyObject *args) {
     }
     Ctx *c = PyMem_Calloc(1, sizeof(Ctx));
     Buffers *held = PyMem_Calloc(1, sizeof(Buffers));
-    Py_buffer rows[6], stopbuf;
-    int nrows_held = 0, stop_held = 0;
+    Py_buffer rows[6], stopbuf, limbuf, usedbuf;
+    int nrows_held = 0, stop_held = 0, lim_held = 0, used_held = 0;
+    const int16_t *used = NULL;
+    Py_ssize_t used_width = 0;
     PyObject *result = NULL;
     if (c == NULL || held == NULL) {
         PyErr_NoMemory();
@@ -510,16 +619,30 @@ static PyObject *py_bounds(PyObject *self, PyObject *args) {
         Tab *dest[3] = {&c->ser[lv + 1], &c->par[lv + 1], &c->any[lv + 1]};
         for (int k = 0; k < 3; k++) {
             PyObject *spec = PyTuple_GET_ITEM(level, k);
-            PyObject *values, *index;
+            PyObject *values, *index, *parts;
             long long kmin;
             int shift;
-            if (!PyArg_ParseTuple(spec, "OOLi", &values, &index, &kmin, &shift)) goto done;
+            if (!PyArg_ParseTuple(spec, "OOLiO", &values, &index, &kmin, &shift, &parts)) goto done;
             Py_buffer *view = &held->buf[held->held];
             if (get_doubles(values, held, view, "table", 0) < 0) goto done;
             held->held++;
             dest[k]->v = (const double *)view->buf;
             dest[k]->n = view->len / 8;
             dest[k]->idx = NULL;
+            dest[k]->parts = NULL;
+            dest[k]->width = 0;
+            if (parts != Py_None) {
+                Py_buffer *pv = &held->buf[held->held];
+                if (PyObject_GetBuffer(parts, pv, PyBUF_C_CONTIGUOUS | PyBUF_FORMAT | PyBUF_ND) < 0) goto done;
+                held->held++;
+                if (pv->itemsize != 2 || pv->ndim != 2 || pv->shape[0] != dest[k]->n || pv->shape[1] != lv + 1 ||
+                    pv->format == NULL || strcmp(pv->format, "h") != 0) {
+                    PyErr_SetString(PyExc_TypeError, "bounds: a table's parts are an int16 array, one row per entry");
+                    goto done;
+                }
+                dest[k]->parts = (const int16_t *)pv->buf;
+                dest[k]->width = (int)(lv + 1);
+            }
             if (index != Py_None) {
                 Py_buffer *iv = &held->buf[held->held];
                 if (PyObject_GetBuffer(index, iv, PyBUF_C_CONTIGUOUS | PyBUF_FORMAT) < 0) goto done;
@@ -556,11 +679,32 @@ static PyObject *py_bounds(PyObject *self, PyObject *args) {
             goto done;
         }
     }
+    if (olimits != Py_None) { /* a limited bin: every table has its parts, every row its used values */
+        if (PyObject_GetBuffer(olimits, &limbuf, PyBUF_C_CONTIGUOUS | PyBUF_FORMAT) < 0) goto done;
+        lim_held = 1;
+        if (PyObject_GetBuffer(oused, &usedbuf, PyBUF_C_CONTIGUOUS | PyBUF_FORMAT | PyBUF_ND) < 0) goto done;
+        used_held = 1;
+        if (limbuf.itemsize != 8 || (strcmp(limbuf.format, "q") != 0 && strcmp(limbuf.format, "l") != 0) ||
+            usedbuf.itemsize != 2 || usedbuf.ndim != 2 || usedbuf.shape[0] != count || usedbuf.shape[1] > MAX_PARTS ||
+            strcmp(usedbuf.format, "h") != 0) {
+            PyErr_SetString(PyExc_TypeError, "bounds: limits are int64, used is int16 (rows, taken)");
+            goto done;
+        }
+        for (Py_ssize_t lv = 1; lv <= h; lv++) {
+            if (c->ser[lv].parts == NULL || c->par[lv].parts == NULL || c->any[lv].parts == NULL) {
+                PyErr_SetString(PyExc_TypeError, "bounds: a limited bin's tables need their parts");
+                goto done;
+            }
+        }
+        c->limits = (const int64_t *)limbuf.buf;
+        used = (const int16_t *)usedbuf.buf;
+        used_width = usedbuf.shape[1];
+    }
     const double *t = rows[0].buf, *bnd = rows[1].buf, *L = rows[2].buf, *U = rows[3].buf;
     double *lo = rows[4].buf, *hi = rows[5].buf;
     Py_BEGIN_ALLOW_THREADS
     for (Py_ssize_t i = offset; i < count && !*c->stop; i += stride) {
-        Row r = {t[i], bnd[i], L[i], U[i]};
+        Row r = {t[i], bnd[i], L[i], U[i], used ? used + i * used_width : NULL, (int)used_width};
         Bounds b = what == 0 ? family(c, op, n, m, r) : nodes(c, op, n, m, r);
         lo[i] = b.lo;
         hi[i] = b.hi;
@@ -570,6 +714,8 @@ static PyObject *py_bounds(PyObject *self, PyObject *args) {
 done:
     for (int k = 0; k < nrows_held; k++) PyBuffer_Release(&rows[k]);
     if (stop_held) PyBuffer_Release(&stopbuf);
+    if (lim_held) PyBuffer_Release(&limbuf);
+    if (used_held) PyBuffer_Release(&usedbuf);
     if (held) release_all(held);
     PyMem_Free(held);
     PyMem_Free(c);

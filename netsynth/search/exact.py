@@ -614,17 +614,17 @@ class _Engine:
         return lo, hi
 
     def _compiled(self) -> bool:
-        """Whether the compiled recursion (:mod:`.kernel`) answers; unlimited bins only."""
-        return self.limits is None and kernel.enabled()
+        """Whether the compiled recursion (:mod:`.kernel`) answers."""
+        return kernel.enabled()
 
     def _kernel(self, what: int, op: int, n: int, m: int, r: _Rows) -> tuple[np.ndarray, np.ndarray]:
         if self._kernel_tables is None:
             self._kernel_tables = tuple(
-                tuple(kernel.table_spec(t.values) for t in (lv.ser, lv.par, lv.any))
+                tuple(kernel.table_spec(t.values, t.parts) for t in (lv.ser, lv.par, lv.any))
                 for lv in (self.levels[i] for i in range(1, self.h + 1))
             )
         lo, hi, looked = kernel.bounds(self._kernel_tables, self.vmin, self.vmax, what, op, n, m,
-                                       r.t, r.bnd, r.L, r.U)
+                                       r.t, r.bnd, r.L, r.U, self.limits, r.used)
         self.looked += looked
         return lo, hi
 

@@ -56,18 +56,19 @@ INDEX_FROM = 256
 RUN_ENTRIES = 4
 
 
-def table_spec(values: np.ndarray) -> tuple:
-    """(values, index, kmin, shift): a sorted table of positive ohms as :func:`bounds` takes it.
+def table_spec(values: np.ndarray, parts: np.ndarray | None = None) -> tuple:
+    """(values, index, kmin, shift, parts): a sorted table of positive ohms as :func:`bounds` takes it.
 
     The index splits the table by each value's leading bits (its float64 bit pattern shifted right
     by ``shift``: the exponent and the first mantissa bits, which grow with the value), so that a
     look-up reads the index, then a run of about :data:`RUN_ENTRIES` entries, instead of bisecting
     the whole table; ``index[k]`` is the first entry whose key is at least ``kmin + k``. None for
-    short tables.
+    short tables. ``parts`` (limited bins): the bin-value indices of each entry's parts.
     """
     values = np.ascontiguousarray(values, dtype=np.float64)
+    parts = None if parts is None else np.ascontiguousarray(parts, dtype=np.int16)
     if len(values) < INDEX_FROM or not values[0] > 0:
-        return values, None, 0, 0
+        return values, None, 0, 0, parts
     bits = values.view(np.int64)
     exponents = int((bits[-1] >> 52) - (bits[0] >> 52)) + 1
     mantissa_bits = max(0, min(30, int(np.log2(len(values) / (RUN_ENTRIES * exponents)))))
@@ -75,7 +76,7 @@ def table_spec(values: np.ndarray) -> tuple:
     keys = bits >> shift
     kmin = int(keys[0])
     index = np.searchsorted(keys, np.arange(kmin, int(keys[-1]) + 2, dtype=np.int64)).astype(np.int32)
-    return values, index, kmin, shift
+    return values, index, kmin, shift, parts
 
 
 def _executor() -> ThreadPoolExecutor:
@@ -88,11 +89,17 @@ def _executor() -> ThreadPoolExecutor:
 
 
 def bounds(tables: tuple, vmin: float, vmax: float, what: int, op: int, n: int, m: int,
-           t: np.ndarray, bnd: np.ndarray, L: np.ndarray, U: np.ndarray) -> tuple[np.ndarray, np.ndarray, int]:
+           t: np.ndarray, bnd: np.ndarray, L: np.ndarray, U: np.ndarray,
+           limits: np.ndarray | None = None, used: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray, int]:
     """(floor, ceil, look-ups) per row; ``what`` 0 is :meth:`.exact._Engine._family`, 1 ``_nodes``.
 
     ``tables``: for each level 1..h, the (ser, par, any) tables, each from :func:`table_spec`.
+    A limited bin gives ``limits`` (how many of each bin value) and ``used`` (per row, the
+    bin-value indices already taken), and its tables their parts.
     """
+    if limits is not None:
+        limits = np.ascontiguousarray(limits, dtype=np.int64)
+        used = np.ascontiguousarray(used, dtype=np.int16)
     cols = [np.ascontiguousarray(a, dtype=np.float64) for a in (t, bnd, L, U)]
     count = len(cols[0])
     lo = np.empty(count)
@@ -100,7 +107,8 @@ def bounds(tables: tuple, vmin: float, vmax: float, what: int, op: int, n: int, 
     workers = threads() if count >= THREAD_FROM else 1
     stop = np.zeros(1, dtype=np.int32)
     # even one share runs on the pool: the main thread then waits where Ctrl-C reaches it
-    jobs = [_executor().submit(_kernel.bounds, tables, vmin, vmax, what, op, n, m, *cols, lo, hi, k, workers, stop)
+    jobs = [_executor().submit(_kernel.bounds, tables, vmin, vmax, what, op, n, m, *cols, lo, hi, k, workers, stop,
+                               limits, used)
             for k in range(workers)]
     try:
         return lo, hi, sum(j.result() for j in jobs)
