@@ -428,9 +428,13 @@ static void limited_child(Ctx *c, int op, int n2, int n1, const Tab *tb, Py_ssiz
  * until a + (least x) passes above it; parallel a descending below the boundary until
  * a ∥ (largest x) falls below it. Each a must fit beside the row's parts; so must each x (scan).
  */
+static int limited_swapped(Ctx *c, int op, int n2, int n1, int same, double xmin, double xmax, const Tab *tb,
+                           Py_ssize_t start, Py_ssize_t stop, Py_ssize_t full, Row r, Bounds *res);
+
 static void limited_split(Ctx *c, int op, int n2, int n1, int same, double xmin, double xmax, const Tab *tb,
                           Py_ssize_t start, Py_ssize_t stop, Py_ssize_t full, Row r, Bounds *res) {
     const double *v = tb->v;
+    if (n2 <= c->h && limited_swapped(c, op, n2, n1, same, xmin, xmax, tb, start, stop, full, r, res)) return;
     if (op == OP_SERIES) {
         for (Py_ssize_t i = start; i < tb->n; i++) {
             if (*c->stop) return;
@@ -454,6 +458,85 @@ static void limited_split(Ctx *c, int op, int n2, int n1, int same, double xmin,
         }
     }
     (void)stop;
+}
+
+/*
+ * limited_split()'s pairs taken x-first, as swapped_split() does for unlimited bins, where fewer x
+ * than a can matter. The a visited are one run of the table: series from `start` while
+ * a + (least x) stays within the window; parallel from the first a whose a ∥ (largest x) reaches
+ * it up to `stop`. For each x that fits beside the row's parts, the nearest a on either side of
+ * its partner target that fits beside both is found by stepping past those that would overdraw,
+ * up to where a ⊕ x leaves the window. Returns 0, doing nothing, when it would not save work.
+ */
+static int limited_swapped(Ctx *c, int op, int n2, int n1, int same, double xmin, double xmax, const Tab *tb,
+                           Py_ssize_t start, Py_ssize_t stop, Py_ssize_t full, Row r, Bounds *res) {
+    const Tab *xt = (2 * n1 > n2) ? non(c, op, n2) : &c->any[n2];
+    const double *v = tb->v, *x = xt->v;
+    double L = dmax(r.L, res->lo), U = dmin(r.U, res->hi);
+    double Lw = L - SLACK * fabs(L), Uw = U + SLACK * fabs(U);
+    Py_ssize_t ia0, ia1, lo_i, hi_i;
+    if (op == OP_SERIES) { /* a + least(a) <= Uw, least(a) = max(xmin, a) for the same size, else xmin */
+        ia0 = start;
+        ia1 = same ? (Uw / 2 >= xmin ? tab_upper(tb, Uw / 2) : tab_upper(tb, Uw - xmin)) : tab_upper(tb, Uw - xmin);
+    } else { /* a ∥ most(a) >= Lw, most(a) = min(xmax, a) for the same size, else xmax */
+        double g = 1.0 / Lw - 1.0 / xmax;
+        double edge = g > 0 ? 1.0 / g : POS; /* a ∥ xmax >= Lw from here on */
+        ia0 = same ? (2 * Lw <= xmax ? tab_lower(tb, 2 * Lw) : tab_lower(tb, edge)) : tab_lower(tb, edge);
+        if (!(Lw > 0)) ia0 = 0;
+        ia1 = stop;
+        (void)full;
+    }
+    if (ia1 - ia0 < 2) return 0;
+    const double *as = v + ia0;
+    Py_ssize_t n = ia1 - ia0;
+    double first = as[0], last = as[n - 1];
+    if (op == OP_SERIES) {
+        lo_i = tab_lower(xt, same ? dmax(Lw - last, first) : Lw - last);
+        hi_i = tab_upper(xt, Uw - first);
+    } else {
+        lo_i = tab_lower(xt, par_child(L, last, NEG, +1));
+        double top = par_child(U, first, POS, -1);
+        hi_i = tab_upper(xt, same ? dmin(top, last) : top);
+    }
+    if (hi_i < lo_i) hi_i = lo_i;
+    if ((hi_i - lo_i) * 2 >= n) return 0;
+    c->looked += hi_i - lo_i;
+    Tab sub = *tb; /* the a's as a table of their own, for fits() */
+    sub.v = as;
+    sub.n = n;
+    sub.parts = tb->parts + ia0 * tb->width;
+    sub.idx = NULL;
+    int16_t used[MAX_PARTS];
+    if (r.nused + xt->width > MAX_PARTS) return 0;
+    memcpy(used, r.used, sizeof(int16_t) * (size_t)r.nused);
+    Row both = r;
+    both.used = used;
+    both.nused = r.nused + xt->width;
+    Py_ssize_t hint = n - 1;
+    for (Py_ssize_t i = lo_i; i < hi_i; i++) {
+        if (*c->stop) return 1;
+        if (!fits(c, xt, i, &r)) continue;
+        double xv = x[i];
+        memcpy(used + r.nused, xt->parts + i * xt->width, sizeof(int16_t) * (size_t)xt->width);
+        double q = op == OP_SERIES ? r.t - xv : par_target(r.t, xv);
+        double qf = q, qc = q;
+        if (same) {
+            if (op == OP_SERIES) qf = dmin(q, xv);
+            else qc = dmax(q, xv);
+        }
+        L = dmax(r.L, res->lo);
+        U = dmin(r.U, res->hi);
+        /* a ⊕ x leaves the window below these a (floor side) and above these (ceil side) */
+        double a_low = op == OP_SERIES ? L - xv - SLACK * fabs(L) : par_child(L, xv, NEG, +1);
+        double a_high = op == OP_SERIES ? U - xv + SLACK * fabs(U) : par_child(U, xv, POS, -1);
+        Py_ssize_t ci = hint = gallop_lower(as, n, qc, hint);
+        Py_ssize_t fi = qf == qc ? ((ci < n && as[ci] == qf) ? ci : ci - 1) : upper_bound(as, n, qf) - 1;
+        fi = scan(c, &sub, fi, -1, a_low, &both);
+        ci = scan(c, &sub, ci, +1, a_high, &both);
+        if (fi >= 0 && !(same && op == OP_PARALLEL && as[fi] < xv)) res->lo = dmax(res->lo, join(op, as[fi], xv));
+        if (ci < n && !(same && op == OP_SERIES && as[ci] > xv)) res->hi = dmin(res->hi, join(op, as[ci], xv));
+    }
+    return 1;
 }
 
 /* fold the ⊕ nodes of one split (a of n1 parts, x of n − n1) into res (exact.py _split) */
