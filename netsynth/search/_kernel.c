@@ -16,8 +16,9 @@
  *     lies above the window: the children come in ascending order and both joins grow with a.
  *
  * Tables are the sorted value arrays of each level (1..h parts): the networks whose top is a
- * series node, a parallel node, or either. Unlimited bins only: the limited engine, which
- * tracks the parts each row has used, stays in numpy.
+ * series node, a parallel node, or either. On a limited bin (exact.py "Stock limits") each table
+ * entry also lists its parts, each row the parts its ancestors took, and no entry is taken that
+ * would use more of a value than the bin holds.
  */
 #define PY_SSIZE_T_CLEAN
 #include <Python.h>

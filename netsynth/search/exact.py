@@ -49,6 +49,14 @@ entries that would overdraw a value), and since the boundary argument above reli
 x's choices not depending on a, a second pass there widens the boundary to every
 entry that could still beat the best found (a ⊕ x lies beyond a).
 
+Compiled recursion
+------------------
+Where :mod:`.kernel` was built, ``_family`` and ``_nodes`` above the tables run in C, one
+row at a time, with the same splits, cuts and expressions, plus a window that narrows as
+the row improves, and pairs taken x-first where fewer x than a matter (see ``_kernel.c``).
+The two engines give the same values (tests/test_kernel.py); ``NETSYNTH_KERNEL=off``
+picks this module's numpy code.
+
 Cost model
 ----------
 :meth:`ExactSearch.lookups` estimates the table look-ups from the bin's size alone,
@@ -93,7 +101,8 @@ CHUNK_ROWS = 1_000_000
 MAX_LOOKUPS = 300_000_000
 #: the same with the compiled recursion (:mod:`.kernel`): measured 3 ns (E192, 5 parts) to 10 ns
 #: (E24, 6 parts; E96, 5 parts) per estimated look-up on targets with no early exact hit, both
-#: cores, so about 40 s at worst. The limited engine stays in numpy and keeps :data:`MAX_LOOKUPS`.
+#: cores, so about 40 s at worst. Limited bins keep :data:`MAX_LOOKUPS`: their look-ups step past
+#: parts that would overdraw (measured: E24 one of each, 6 parts, 2.4e8 estimated, 6 s at worst).
 MAX_LOOKUPS_COMPILED = 4_000_000_000
 #: the largest table level built (``any`` entries, estimated from the bin's size): a level
 #: holds about twice that many entries over its three tables at 20 bytes each (measured: 5.25 M
