@@ -147,7 +147,7 @@ def main() -> None:
         ("default", [], sorted(set(default_bin().values)), [3, 4, 5]),
         ("E24 1 Ω..10 MΩ", E24, e24, [3, 4, 5, 6]),
         ("E96 1 Ω..10 MΩ", E96, sorted(set(kit_bin("E96", 1.0, 10e6).values)), [4, 5]),
-        ("E24, 1 of each", [*E24, "--qty", "1"], e24, [5]),
+        ("E24, 1 of each", [*E24, "--qty", "1"], e24, [5, 6]),
         ("E24, 2 of each", [*E24, "--qty", "2"], e24, [5]),
         ("E24, 1 or 2", ["--bin", limited_bin(cache, e24)], e24, [5]),
     ]
