@@ -396,18 +396,15 @@ static int swapped_split(Ctx *c, int op, int same, const double *as, Py_ssize_t 
 
 static Bounds family(Ctx *c, int op, int n, int m, Row r);
 
-/* one child a of a limited split: a ⊕ (the family of x beside a's parts), folded into res */
-static void limited_child(Ctx *c, int op, int n2, int n1, const Tab *tb, Py_ssize_t i, Row r, Bounds *res) {
-    int16_t used[MAX_PARTS];
-    double a = tb->v[i];
+/* a ⊕ (the family of x of n2 parts that may follow a), folded into res; `used`: the parts the
+ * row's ancestors and a take (limited bins) */
+static void fold_child(Ctx *c, int op, int n2, int n1, double a, Row r, const int16_t *used, int nused,
+                       Bounds *res) {
     double L = dmax(r.L, res->lo), U = dmin(r.U, res->hi);
-    if (r.nused + tb->width > MAX_PARTS || !fits(c, tb, i, &r)) return;
-    memcpy(used, r.used, sizeof(int16_t) * (size_t)r.nused);
-    memcpy(used + r.nused, tb->parts + i * tb->width, sizeof(int16_t) * (size_t)tb->width);
     Row sub;
     sub.bnd = a;
     sub.used = used;
-    sub.nused = r.nused + tb->width;
+    sub.nused = nused;
     if (op == OP_SERIES) {
         sub.t = r.t - a;
         sub.L = L - a - SLACK * fabs(L);
@@ -420,6 +417,15 @@ static void limited_child(Ctx *c, int op, int n2, int n1, const Tab *tb, Py_ssiz
     Bounds ch = family(c, op, n2, n1, sub);
     if (isfinite(ch.lo)) res->lo = dmax(res->lo, join(op, a, ch.lo));
     if (isfinite(ch.hi)) res->hi = dmin(res->hi, join(op, a, ch.hi));
+}
+
+/* one child a (entry i of tb) of a limited split, if it fits beside the row's parts */
+static void limited_child(Ctx *c, int op, int n2, int n1, const Tab *tb, Py_ssize_t i, Row r, Bounds *res) {
+    int16_t used[MAX_PARTS];
+    if (r.nused + tb->width > MAX_PARTS || !fits(c, tb, i, &r)) return;
+    memcpy(used, r.used, sizeof(int16_t) * (size_t)r.nused);
+    memcpy(used + r.nused, tb->parts + i * tb->width, sizeof(int16_t) * (size_t)tb->width);
+    fold_child(c, op, n2, n1, tb->v[i], r, used, r.nused + tb->width, res);
 }
 
 /*
@@ -593,24 +599,10 @@ static void split(Ctx *c, int op, int n, int n1, int m, Row r, Bounds *res) {
     for (Py_ssize_t i = start; i < stop; i++) {
         if (*c->stop) return; /* the answer is thrown away */
         double a = v[i];
-        L = dmax(r.L, res->lo);
         U = dmin(r.U, res->hi);
-        Row sub;
-        sub.bnd = a;
-        if (op == OP_SERIES) {
-            if (a + (same ? dmax(xmin, a) : xmin) > U + SLACK * fabs(U)) break; /* later a land higher still */
-            sub.t = r.t - a;
-            sub.L = L - a - SLACK * fabs(L);
-            sub.U = U - a + SLACK * fabs(U);
-        } else {
-            if (a * xmin / (a + xmin) > U + SLACK * fabs(U)) break; /* a ∥ x grows with a too */
-            sub.t = par_target(r.t, a);
-            sub.L = par_child(L, a, NEG, +1);
-            sub.U = par_child(U, a, POS, -1);
-        }
-        Bounds ch = family(c, op, n2, n1, sub);
-        if (isfinite(ch.lo)) res->lo = dmax(res->lo, join(op, a, ch.lo));
-        if (isfinite(ch.hi)) res->hi = dmin(res->hi, join(op, a, ch.hi));
+        double least = op == OP_SERIES ? a + (same ? dmax(xmin, a) : xmin) : a * xmin / (a + xmin);
+        if (least > U + SLACK * fabs(U)) break; /* both joins grow with a: later a land higher still */
+        fold_child(c, op, n2, n1, a, r, NULL, 0, res);
     }
 }
 
