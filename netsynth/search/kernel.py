@@ -3,8 +3,10 @@
 ``netsynth.search._kernel`` (C, built by ``pip install`` where a C compiler is found)
 computes the floor and ceil of a family of networks one query row at a time, with the
 same splits, cuts and floating-point expressions as the numpy engine of :mod:`.exact`,
-plus a window that narrows as each row's answer improves. Both give the same values; the
-compiled loop makes about 10–30 times fewer passes over memory for a look-up.
+for unlimited and limited bins, plus a window that narrows as each row's answer improves.
+Both give the same values. Measured on two cores: π kΩ from the 169-value E24 bin at six
+parts, 47 s in numpy and 1.9 s compiled, most of it from taking pairs x-first where fewer
+x than a matter (700 M look-ups down to 57 M), not from compiling as such (about 1.2×).
 
 Rows are shared out between threads (the module releases the GIL), interleaved so that
 rows with much and little work spread evenly. The main thread only waits, so Ctrl-C reaches
