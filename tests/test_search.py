@@ -8,6 +8,7 @@ from collections import Counter
 from fractions import Fraction
 from functools import lru_cache
 
+import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
@@ -335,3 +336,21 @@ def test_a_witness_is_ranked_by_the_value_its_tree_computes():
     cands = [(100.0, lambda: series(Part(100.0), Part(10.0))), (104.0, lambda: series(Part(100.0), Part(4.0)))]
     found = _ranked(cands, 100.0, 2, alternatives=1)
     assert [(f.value_ohms, round(f.error, 12)) for f in found] == [(104.0, 0.04), (110.0, 0.1)]
+
+
+def test_a_witness_missing_on_its_side_is_taken_from_the_other(monkeypatch):
+    # a network on the target to the last bit may be seen from below by the search and from above
+    # by its witness (netsynth.search.exact._NoWitness): the witness then comes from the other side
+    from netsynth.search import exact
+
+    search = ExactSearch([100.0, 220.0, 470.0], [None] * 3, 4, table_parts=2)
+    real = exact._Engine.witness_any
+
+    def below_missing(self, n, r, side):
+        if side < 0:
+            raise exact._NoWitness
+        return real(self, n, r, side)
+
+    monkeypatch.setattr(exact._Engine, "witness_any", below_missing)
+    net = search.witness(4, np.array([555.0]), None, -1)
+    assert part_count(net) == 4 and resistance(net) >= 555.0  # the ceil's network

@@ -140,6 +140,13 @@ EXACT = 1e-15
 NEG, POS = -np.inf, np.inf
 
 
+class _NoWitness(Exception):
+    """A witness search found no network on the side asked for. Only a network that lands on the
+    target to the last bit does that: the compiled recursion may see it from below (pairs taken
+    x-first) and the witness, which takes them a-first, from above, or the other way round. The
+    callers then take the other side; :func:`_ranked` ranks what they build by its own value."""
+
+
 @dataclass(frozen=True, slots=True)
 class Found:
     """One network the search found: its tree, value and signed relative error."""
@@ -308,7 +315,10 @@ class ExactSearch:
 
     def witness(self, n: int, t: np.ndarray, used: np.ndarray | None, side: int) -> Network:
         """A network of n parts whose value is :meth:`bounds`' floor (side -1) or ceil (+1) at ``t[0]``."""
-        return self._engine.witness_any(n, self._rows(t, used), side)
+        try:
+            return self._engine.witness_any(n, self._rows(t, used), side)
+        except _NoWitness:  # the value was seen from the other side (see _NoWitness)
+            return self._engine.witness_any(n, self._rows(t, used), -side)
 
     def _rows(self, t, used) -> _Rows:
         t = np.asarray(t, dtype=np.float64)
@@ -560,7 +570,10 @@ class _Engine:
     def _builder(self, op, n, n1, a_i, child: _Rows, side) -> Callable[[], Network]:
         def build() -> Network:
             left = self.network(n1, KIND_ANY if n1 == 1 else self._non_kind(op), a_i)
-            right = self._witness_family(op, n - n1, n1, child, side)
+            try:
+                right = self._witness_family(op, n - n1, n1, child, side)
+            except _NoWitness:  # the value was seen from the other side (see _NoWitness)
+                right = self._witness_family(op, n - n1, n1, child, -side)
             return series(left, right) if op == OP_SERIES else parallel(left, right)
 
         return build
@@ -737,8 +750,7 @@ class _Engine:
         ilo = np.searchsorted(v, tf, side="right") - 1
         ihi = np.searchsorted(v, tc, side="left")
         if r.used is not None:
-            lo_stop = np.maximum(r.L, r.bnd) if bounded and op == OP_SERIES else r.L
-            hi_stop = np.minimum(r.U, r.bnd) if bounded and op == OP_PARALLEL else r.U
+            lo_stop, hi_stop = _scan_stops(op, r, bounded)
             ilo = self._scan(table, ilo, r.used, -1, lo_stop)
             ihi = self._scan(table, ihi, r.used, +1, hi_stop)
         lo = np.where(ilo >= 0, v[np.clip(ilo, 0, size - 1)], NEG)
@@ -759,11 +771,11 @@ class _Engine:
         if side < 0:
             i = np.searchsorted(v, tf, side="right") - 1
             if r.used is not None:
-                i = self._scan(table, i, r.used, -1, np.maximum(r.L, r.bnd) if bounded and op == OP_SERIES else r.L)
+                i = self._scan(table, i, r.used, -1, _scan_stops(op, r, bounded)[0])
         else:
             i = np.searchsorted(v, tc, side="left")
             if r.used is not None:
-                i = self._scan(table, i, r.used, +1, np.minimum(r.U, r.bnd) if bounded and op == OP_PARALLEL else r.U)
+                i = self._scan(table, i, r.used, +1, _scan_stops(op, r, bounded)[1])
         return int(i[0])
 
     def _scan(self, table: Table, idx, used, step, stop_at) -> np.ndarray:
@@ -805,7 +817,7 @@ class _Engine:
             if (side < 0 and other > single) or (side > 0 and other < single):
                 return self._witness_nodes(op, n, m, r, side)
         if not np.isfinite(single):
-            raise AssertionError("witness asked for a side with no network")
+            raise _NoWitness
         return self._witness_nodes(_other(op), n, 1, rr, side)
 
     def _witness_nodes(self, op: int, n: int, m: int, r: _Rows, side: int) -> Network:
@@ -820,7 +832,7 @@ class _Engine:
                     best_val, best = joined[j], (n1, int(a_idx[j]), sub.take(np.array([j])))
                 _reduce(op, lo, hi, np.zeros(len(a), np.intp), a, clo, chi)
         if best is None:
-            raise AssertionError("witness asked for a side with no network")
+            raise _NoWitness
         n1, a_i, sub = best
         left = self.network(n1, KIND_ANY if n1 == 1 else self._non_kind(op), a_i)
         right = self._witness_family(op, n - n1, n1, sub, side)
@@ -828,6 +840,14 @@ class _Engine:
 
 
 # ---------------------------------------------------------------------- helpers
+
+
+def _scan_stops(op: int, r: _Rows, bounded: bool) -> tuple[np.ndarray, np.ndarray]:
+    """Where a limited look-up stops stepping down and up: past the window's edges (tightened by a
+    same-size bound), widened by :data:`WINDOW_SLACK`."""
+    lo = np.maximum(r.L, r.bnd) if bounded and op == OP_SERIES else r.L
+    hi = np.minimum(r.U, r.bnd) if bounded and op == OP_PARALLEL else r.U
+    return lo - WINDOW_SLACK * np.abs(lo), hi + WINDOW_SLACK * np.abs(hi)
 
 
 def _bounded_rows(op: int, r: _Rows) -> _Rows:
