@@ -400,8 +400,9 @@ class ExactSearch:
         options: list[Network] = []
         for x in _near(parts, target - v):
             options.append(series(net, Part(float(x))))
-        if v > target:
-            for x in _near(parts, 1.0 / (1.0 / target - 1.0 / v)):
+        g = 1.0 / target - 1.0 / v  # 0 where v is above the target by a rounding only
+        if g > 0:
+            for x in _near(parts, 1.0 / g):
                 options.append(parallel(net, Part(float(x))))
         two = self.free.levels[2].any if 2 in self.free.levels else None
         for p in sorted(set(part_values(net))) if two is not None else ():
