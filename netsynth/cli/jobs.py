@@ -212,7 +212,7 @@ def shunt(ranges, ifs, rm, bin_file, series, value_range, qty, kit_tolerance, ki
     """
     from netsynth.jobs.meters import Movement, ring_reading_error, ring_shunt, shunt_amps, shunt_ohms, \
         shunt_reading_error
-    from netsynth.jobs.shared import GREEDY_NOTE, in_turn
+    from netsynth.jobs.shared import in_turn
     from netsynth.render.json import design_dict
     from netsynth.render.report import design_text
 
@@ -247,21 +247,16 @@ def shunt(ranges, ifs, rm, bin_file, series, value_range, qty, kit_tolerance, ki
     designs = in_turn([s.section_ohms for s in ring], stock, build)
     errors = ring_reading_error(movement, ring, [d.best.value_ohms for d in designs])
     if as_json:
-        echo_json({"job": "shunt", "movement": _movement_dict(movement), "order": GREEDY_NOTE, "networks": [
-            {**design_dict(d), "section": k + 1, "range_amps": s.amps, "tap_ohms": s.tap_ohms,
-             "section_ohms": s.section_ohms, "full_scale_error": e, "operating_amps": s.section_amps}
-            for k, (d, s, e) in enumerate(zip(designs, ring, errors))]})
+        _echo_sections_json("shunt", movement, designs, [
+            {"range_amps": s.amps, "tap_ohms": s.tap_ohms, "section_ohms": s.section_ohms, "full_scale_error": e,
+             "operating_amps": s.section_amps} for s, e in zip(ring, errors)])
         return
-    click.echo(f"Ring (Ayrton) shunt for {', '.join(_si(a, 'A') for a in amps)} on a {_movement_text(movement)}: "
-               f"ring {_si(ring[0].tap_ohms, 'Ω')}, {len(ring)} sections")
-    for k, (d, s) in enumerate(zip(designs, ring)):
-        click.echo(f"\n=== Section {k + 1}: {_si(s.section_ohms, 'Ω')} (tap of the {_si(s.amps, 'A')} range to the "
-                   f"next; up to {_si(s.section_amps, 'A')} at full scale)")
-        click.echo(design_text(d, show_alternatives=alternatives > 0))
-    click.echo("\nFull scale with the sections as built:")
-    for s, e in zip(ring, errors):
-        click.echo(f"  {_si(s.amps, 'A'):>10}  reads {_pct(e)} of reading")
-    click.echo(f"Note: {GREEDY_NOTE}")
+    _echo_sections(
+        f"Ring (Ayrton) shunt for {', '.join(_si(a, 'A') for a in amps)} on a {_movement_text(movement)}: "
+        f"ring {_si(ring[0].tap_ohms, 'Ω')}, {len(ring)} sections", designs,
+        [f"{_si(s.section_ohms, 'Ω')} (tap of the {_si(s.amps, 'A')} range to the next; up to "
+         f"{_si(s.section_amps, 'A')} at full scale)" for s in ring],
+        [(_si(s.amps, 'A'), e) for s, e in zip(ring, errors)], alternatives)
     built = [d.best.value_ohms for d in designs]
     # the highest range's tap is the last section: LEAD_OHMS more there, with the ring as built
     leaded = ring_reading_error(movement, ring, built[:-1] + [built[-1] + LEAD_OHMS])[-1]
@@ -309,7 +304,7 @@ def multiplier(ranges, ifs, rm, bin_file, series, value_range, qty, kit_toleranc
     """
     from netsynth.jobs.meters import Movement, chain_reading_error, multiplier_chain, multiplier_ohms, \
         multiplier_reading_error
-    from netsynth.jobs.shared import GREEDY_NOTE, in_turn
+    from netsynth.jobs.shared import in_turn
     from netsynth.render.json import design_dict
     from netsynth.render.report import design_text
 
@@ -340,22 +335,42 @@ def multiplier(ranges, ifs, rm, bin_file, series, value_range, qty, kit_toleranc
                                                         as_json))
     errors = chain_reading_error(movement, chain, [d.best.value_ohms for d in designs])
     if as_json:
-        echo_json({"job": "multiplier", "movement": _movement_dict(movement), "order": GREEDY_NOTE, "networks": [
-            {**design_dict(d), "section": k + 1, "range_volts": s.volts, "multiplier_ohms": s.multiplier_ohms,
-             "section_ohms": s.section_ohms, "full_scale_error": e, "operating_amps": s.amps}
-            for k, (d, s, e) in enumerate(zip(designs, chain, errors))]})
+        _echo_sections_json("multiplier", movement, designs, [
+            {"range_volts": s.volts, "multiplier_ohms": s.multiplier_ohms, "section_ohms": s.section_ohms,
+             "full_scale_error": e, "operating_amps": s.amps} for s, e in zip(chain, errors)])
         return
-    click.echo(f"Multiplier chain for {', '.join(_si(v, 'V') for v in volts)} on a {_movement_text(movement)}: "
-               f"{len(chain)} sections, {_si(chain[-1].multiplier_ohms, 'Ω')} in all")
-    for k, (d, s) in enumerate(zip(designs, chain)):
-        click.echo(f"\n=== Section {k + 1}: {_si(s.section_ohms, 'Ω')} (the {_si(s.volts, 'V')} range: "
-                   f"{_si(s.multiplier_ohms, 'Ω')} in series with the movement)")
+    _echo_sections(
+        f"Multiplier chain for {', '.join(_si(v, 'V') for v in volts)} on a {_movement_text(movement)}: "
+        f"{len(chain)} sections, {_si(chain[-1].multiplier_ohms, 'Ω')} in all", designs,
+        [f"{_si(s.section_ohms, 'Ω')} (the {_si(s.volts, 'V')} range: {_si(s.multiplier_ohms, 'Ω')} in series "
+         "with the movement)" for s in chain],
+        [(_si(s.volts, 'V'), e) for s, e in zip(chain, errors)], alternatives)
+    _volt_caution(max(volts))
+
+
+def _echo_sections(heading: str, designs, titles: list[str], readings: list[tuple[str, float]],
+                   alternatives: int) -> None:
+    """A chain of sections (ring shunt, multiplier): each section's design, then the full-scale
+    reading error of every range with the sections as built."""
+    from netsynth.jobs.shared import GREEDY_NOTE
+    from netsynth.render.report import design_text
+
+    click.echo(heading)
+    for k, (d, title) in enumerate(zip(designs, titles)):
+        click.echo(f"\n=== Section {k + 1}: {title}")
         click.echo(design_text(d, show_alternatives=alternatives > 0))
     click.echo("\nFull scale with the sections as built:")
-    for s, e in zip(chain, errors):
-        click.echo(f"  {_si(s.volts, 'V'):>10}  reads {_pct(e)} of reading")
+    for label, e in readings:
+        click.echo(f"  {label:>10}  reads {_pct(e)} of reading")
     click.echo(f"Note: {GREEDY_NOTE}")
-    _volt_caution(max(volts))
+
+
+def _echo_sections_json(job: str, movement, designs, sections: list[dict]) -> None:
+    from netsynth.jobs.shared import GREEDY_NOTE
+    from netsynth.render.json import design_dict
+
+    echo_json({"job": job, "movement": _movement_dict(movement), "order": GREEDY_NOTE, "networks": [
+        {**design_dict(d), "section": k + 1, **extra} for k, (d, extra) in enumerate(zip(designs, sections))]})
 
 
 def _volt_caution(volts: float) -> None:
