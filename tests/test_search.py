@@ -142,9 +142,7 @@ def test_search_equals_brute_force_on_small_bins(values, counts, target, k):
         got = found[0]
         assert part_count(got.network) == n
         assert abs(float(abs(exact_resistance(got.network) / target_q - 1)) - float(expected)) <= 1e-12
-        used = Counter(part_values(got.network))
-        for v, c in zip(values, counts):
-            assert c is None or used[float(v)] <= c, "the network takes more parts than the bin holds"
+        _assert_within_stock(got.network, values, counts)
 
 
 @settings(max_examples=25, deadline=None)
@@ -207,9 +205,13 @@ def _assert_alternatives_sound(found, values, counts, n):
     for f in found:
         assert part_count(f.network) == n
         assert abs(float(exact_resistance(f.network)) - f.value_ohms) <= 1e-9 * f.value_ohms
-        used = Counter(part_values(f.network))
-        for v, c in zip(values, counts):
-            assert c is None or used[float(v)] <= c, "the network takes more parts than the bin holds"
+        _assert_within_stock(f.network, values, counts)
+
+
+def _assert_within_stock(net, values, counts):
+    used = Counter(part_values(net))
+    for v, c in zip(values, counts):
+        assert c is None or used[float(v)] <= c, "the network takes more parts than the bin holds"
 
 
 @settings(max_examples=25, deadline=None)
